@@ -1,0 +1,157 @@
+"""Command line: ``orbviz SUBCOMMAND ...``; :func:`main` is testable in-process."""
+
+from __future__ import annotations
+
+import argparse
+import json
+import math
+import os
+import sys
+from collections.abc import Callable, Sequence
+
+from orbviz import __version__
+from orbviz._defaults import DEFAULTS
+from orbviz.errors import OrbvizError, ParameterError
+
+__all__ = ["main"]
+
+SPEC_HELP = """\
+orbital spec grammar (labels are case-insensitive, spaces are free):
+  2pz  3dx2-y2  4fxyz     real orbital: N followed by s, px, py, pz, dz2, dxz, dyz, dx2-y2,
+                          dxy, fz3, fxz2, fyz2, fz(x2-y2), fxyz, fx(x2-3y2), fy(3x2-y2)
+  4,2,-1                  complex eigenstate of Lz with n, l, m (the real combination with --real:
+                          m > 0 cosine type, m < 0 sine type)
+  0.6*2s + 0.8*2pz        superposition; weights are real (0.5, 1e-3), imaginary (2j) or complex
+  (1+1j)*2,1,1 - 3dxy     in parentheses, and are normalised for you
+Quote the spec in the shell; one that starts with '-' goes after '--'."""
+
+
+class UsageError(OrbvizError, ValueError):
+    """A command line that argparse could not read."""
+
+
+class _Parser(argparse.ArgumentParser):
+    def error(self, message: str) -> None:  # noqa: D102 - argparse hook
+        raise UsageError(f"{message} (see '{self.prog} --help')")
+
+
+def _finite(kind: str) -> Callable[[str], float]:
+    def parse(text: str) -> float:
+        try:
+            value = float(text)
+        except ValueError:
+            raise argparse.ArgumentTypeError(f"{kind} must be a number, got {text!r}") from None
+        if not math.isfinite(value):
+            raise argparse.ArgumentTypeError(f"{kind} must be finite, got {text!r}")
+        return value
+
+    return parse
+
+
+def _add_orbital_options(parser: argparse.ArgumentParser) -> None:
+    parser.add_argument("spec", help="the orbital, e.g. 3dz2, 4,2,-1 or '0.6*2s+0.8*2pz'")
+    parser.add_argument("--Z", type=_finite("Z"), default=1.0, help="nuclear charge (default 1)")
+    parser.add_argument(
+        "--real", action="store_true", help="read n,l,m states as real combinations"
+    )
+    parser.add_argument(
+        "--fraction",
+        type=_finite("fraction"),
+        default=DEFAULTS.fraction,
+        help=f"probability the surface encloses, in (0, 1) (default {DEFAULTS.fraction})",
+    )
+    mass = parser.add_mutually_exclusive_group()
+    mass.add_argument(
+        "--reduced-mass",
+        action="store_true",
+        help="correct for a finite nuclear mass: the proton's (CODATA) for Z = 1",
+    )
+    mass.add_argument(
+        "--nuclear-mass",
+        type=_finite("nuclear mass"),
+        metavar="U",
+        help="correct for a nucleus of this mass in daltons (u)",
+    )
+
+
+def _orbital(args: argparse.Namespace):
+    from orbviz.orbital import Orbital, proton_mass_ratio
+
+    ratio = 1.0
+    if args.nuclear_mass is not None:
+        if args.nuclear_mass <= 0:
+            raise ParameterError(f"--nuclear-mass must be > 0 u, got {args.nuclear_mass}")
+        from scipy.constants import physical_constants
+
+        electron_u = physical_constants["electron mass in u"][0]
+        ratio = 1.0 / (1.0 + electron_u / args.nuclear_mass)
+    elif args.reduced_mass:
+        if args.Z != 1.0:
+            raise ParameterError(
+                f"--reduced-mass uses the proton mass, so it needs Z = 1 (got Z={args.Z:g}); "
+                "give --nuclear-mass U for another nucleus"
+            )
+        ratio = proton_mass_ratio()
+    return Orbital.from_spec(args.spec, Z=args.Z, real=args.real, mass_ratio=ratio)
+
+
+def _cmd_info(args: argparse.Namespace) -> int:
+    from orbviz.summary import format_summary, summarise
+
+    info = summarise(_orbital(args), fraction=args.fraction)
+    if args.json:
+        print(json.dumps(info, indent=2))
+    else:
+        print(format_summary(info))
+    return 0
+
+
+def _build_parser() -> _Parser:
+    parser = _Parser(
+        prog="orbviz",
+        description="Hydrogen-like orbitals as isosurfaces that enclose a stated probability.",
+        epilog=SPEC_HELP,
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    parser.add_argument("--version", action="version", version=f"orbviz {__version__}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+    info = sub.add_parser(
+        "info",
+        help="energy, nodes, radii and the enclosing isovalue of an orbital",
+        description="Energy, nodes, radii and the isovalue enclosing --fraction of the "
+        "probability. Atomic units: bohr, hartree (eV from CODATA).",
+        epilog=SPEC_HELP,
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    _add_orbital_options(info)
+    info.add_argument("--json", action="store_true", help="print one JSON object")
+    info.set_defaults(run=_cmd_info)
+    return parser
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Run the command line; return the exit status (0 ok, 2 bad input, 1 internal error)."""
+    parser = _build_parser()
+    try:
+        args = parser.parse_args(argv)
+        if not getattr(args, "command", None):
+            parser.print_help()
+            return 2
+        return args.run(args)
+    except SystemExit as stop:  # --help and --version
+        return int(stop.code or 0)
+    except OrbvizError as error:
+        print(f"orbviz: error: {error}", file=sys.stderr)
+        return 2
+    except KeyboardInterrupt:
+        print("orbviz: interrupted", file=sys.stderr)
+        return 130
+    except Exception as error:  # a bug, not bad input: one line, unless debugging
+        if os.environ.get("ORBVIZ_DEBUG"):
+            raise
+        print(
+            f"orbviz: internal error: {type(error).__name__}: {error} "
+            "(set ORBVIZ_DEBUG=1 for the traceback)",
+            file=sys.stderr,
+        )
+        return 1

@@ -1,0 +1,350 @@
+"""The density level whose superlevel set {|psi|^2 >= c} holds a chosen probability.
+
+The enclosed probability P(c) is the mass of the distribution of log |psi|^2 above log c, taken
+under the probability measure |psi|^2 dV. That distribution is tabulated on a fine uniform grid in
+log density, independent of any mesh grid:
+
+* an eigenstate (or any state of one (n, l) shell) factorises, |psi|^2 = R^2(r) A(direction), so
+  the distribution of log |psi|^2 is the convolution of the radial and angular ones (FFT). A real
+  orbital factorises further, A = F(cos polar) G(azimuth), so each factor is a fine 1D quadrature;
+* a superposition of several shells is sampled on a spherical product grid (rays times radii).
+
+Each sample's mass goes to the two nearest log-grid nodes (cloud in cell), which keeps the
+tabulated P(c) second-order accurate in the sample spacing; P between nodes is interpolated
+linearly, and the level is read off the tabulated P directly.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from orbviz._defaults import DEFAULTS
+from orbviz.errors import ParameterError
+from orbviz.orbital import Orbital
+from orbviz.radial import radial_extent
+
+__all__ = ["Isovalue", "enclosed_probability", "enclosing_isovalue"]
+
+_SPAN = 90.0  # e-folds of density kept below the maximum; lower mass is pooled at the bottom
+
+
+@dataclass(frozen=True)
+class Isovalue:
+    """The level that encloses a probability.
+
+    Attributes
+    ----------
+    level : float
+        Probability density c in bohr^-3; the signed field is contoured at +-sqrt(c).
+    fraction : float
+        The probability asked for.
+    enclosed_fraction : float
+        P(c) recomputed on a quadrature twice as fine: the probability the level achieves.
+    max_radius : float
+        Largest distance from the nucleus (bohr) at which |psi|^2 >= c.
+    method : {"separable", "factorised", "rays"}
+        Which quadrature was used.
+    """
+
+    level: float
+    fraction: float
+    enclosed_fraction: float
+    max_radius: float
+    method: str
+
+
+class _LogMass:
+    """Mass binned by log value on a uniform grid: node k sits at top - (size - 1 - k) * step."""
+
+    def __init__(self, top: float, step: float, span: float = _SPAN) -> None:
+        self.step = step
+        self.size = int(math.ceil(span / step)) + 2
+        self.bottom = top - (self.size - 1) * step
+        self.mass = np.zeros(self.size)
+
+    def add(self, low: np.ndarray, high: np.ndarray, masses: np.ndarray) -> None:
+        """Add masses each spread uniformly over the log-value interval [low, high].
+
+        Binning into the cells between half-node edges is exact: the cumulative mass is piecewise
+        linear with slope changes at the interval ends, accumulated by a double cumulative sum.
+        Intervals are clipped to the table, so give it a top above the highest ``high``.
+        """
+        slope = masses / (high - low)
+        ends = np.concatenate([low, high])
+        kinks = np.concatenate([slope, -slope])
+        pos = (ends - (self.bottom - 0.5 * self.step)) / self.step  # in edge units
+        pos = np.clip(pos, 0.0, self.size + 0.0)
+        q = np.minimum(pos.astype(np.int64), self.size)
+        frac = (pos - q) * self.step
+        S = np.bincount(q, kinks, minlength=self.size + 1)
+        D = np.bincount(q, kinks * frac, minlength=self.size + 1)
+        # mass below edge k: sum over kinks in earlier bins of slope * (edge_k - position)
+        below = np.zeros(self.size + 1)
+        below[1:] = self.step * np.cumsum(np.cumsum(S))[:-1] - np.cumsum(D)[:-1]
+        self.mass += np.diff(below)
+
+    @classmethod
+    def of_samples(cls, values: np.ndarray, masses: np.ndarray, step: float) -> _LogMass:
+        """Table of samples on a grid of any dimension; spreads come from neighbour differences."""
+        keep = (values > 0) & (masses > 0)
+        low, high = _cell_intervals(values, step)
+        table = cls(float(high[keep].max()), step)
+        table.add(low[keep], high[keep], masses[keep])
+        return table
+
+    def convolve(self, other: _LogMass) -> _LogMass:
+        """Distribution of the sum of the two log values (product of the values)."""
+        length = self.size + other.size - 1
+        nfft = 1 << (length - 1).bit_length()
+        mass = np.fft.irfft(np.fft.rfft(self.mass, nfft) * np.fft.rfft(other.mass, nfft), nfft)
+        mass = np.maximum(mass[:length], 0.0)
+        out = _LogMass.__new__(_LogMass)
+        out.step, out.size = self.step, length
+        out.bottom = self.bottom + other.bottom
+        out.mass = mass
+        drop = max(0, length - int(math.ceil(_SPAN / self.step)) - 2)
+        if drop:  # pool the far tail into the new bottom node
+            out.mass = np.concatenate([[mass[: drop + 1].sum()], mass[drop + 1 :]])
+            out.bottom += drop * self.step
+            out.size -= drop
+        return out
+
+    def above(self, log_levels: np.ndarray) -> np.ndarray:
+        """Mass with log value >= each level; node k's mass is spread over its half-cells."""
+        tail = np.concatenate([np.cumsum(self.mass[::-1])[::-1], [0.0]])
+        edges = self.bottom + (np.arange(self.size + 1) - 0.5) * self.step
+        return np.interp(log_levels, edges, tail, left=tail[0], right=0.0)
+
+    def level_above(self, fraction: float) -> float:
+        """Log level whose mass above is ``fraction`` (inverse of :meth:`above`)."""
+        tail = np.concatenate([np.cumsum(self.mass[::-1])[::-1], [0.0]])
+        edges = self.bottom + (np.arange(self.size + 1) - 0.5) * self.step
+        return float(np.interp(-fraction, -tail, edges))
+
+
+def _cell_intervals(values: np.ndarray, step: float) -> tuple[np.ndarray, np.ndarray]:
+    """Interval of log density that stands for each gridded sample's quadrature cell.
+
+    For a field linear across a cell, log values spread with variance sum_k g_k^2 / 12 (g_k the
+    change per cell along axis k); a uniform of half-width h = sqrt(sum g_k^2) / 2 matches it.
+    The mass in the cell grows as exp(log value), so the interval is centred h^2 / 3 above the
+    sample (its centre of mass, to fourth order). This keeps the table second order even where
+    neighbouring samples lie many log steps apart. Half-widths are kept within [step/2, 8];
+    cells spread wider than 1 hold almost no mass (they straddle a node).
+    """
+    logs = np.log(np.maximum(values, np.finfo(np.float64).tiny))
+    sq = np.zeros_like(logs)
+    for axis in range(logs.ndim):
+        if logs.shape[axis] > 1:
+            sq += np.gradient(logs, axis=axis) ** 2
+    half = np.clip(0.5 * np.sqrt(sq), 0.5 * step, 8.0)
+    centre = logs + np.minimum(half, 1.0) ** 2 / 3.0
+    return centre - half, centre + half
+
+
+def _midpoints(count: int, low: float, high: float) -> tuple[np.ndarray, float]:
+    step = (high - low) / count
+    return low + (np.arange(count) + 0.5) * step, step
+
+
+def _radial_count(n: int, Z: float, r_max: float, step: float) -> int:
+    """Radial nodes so that neighbouring samples differ by under two log steps in density.
+
+    In the tail R^2 falls as exp(-2Zr/n); on the square-root map dr <= 2 r_max / count.
+    """
+    return DEFAULTS.radial_points + int(2.0 * Z * r_max / (n * step))
+
+
+def _radial_samples(orbital: Orbital, n: int, l: int, refine: int) -> tuple[np.ndarray, ...]:
+    """Radii on a square-root map (dense near the nucleus), R^2, and radial masses R^2 r^2 dr."""
+    Z = orbital.length_charge
+    r_max = radial_extent(n, l, Z=Z, tail=DEFAULTS.radial_tail)
+    u, du = _midpoints(_radial_count(n, Z, r_max, DEFAULTS.log_step / refine), 0.0, 1.0)
+    r = r_max * u * u
+    dens = orbital.radial(n, l, r) ** 2
+    return r, dens, dens * r * r * (2.0 * r_max * u * du)
+
+
+def _unit(t: np.ndarray, azimuth: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    s = np.sqrt(np.maximum(1.0 - t * t, 0.0))
+    return s * np.cos(azimuth), s * np.sin(azimuth), t
+
+
+class _Shell:
+    """One (n, l) shell: log-density distribution = radial (*) angular."""
+
+    def __init__(self, orbital: Orbital, refine: int) -> None:
+        ((n, l),) = orbital.shells
+        step = DEFAULTS.log_step / refine
+        r, dens, mass = _radial_samples(orbital, n, l, refine)
+        radial = _LogMass.of_samples(dens, mass, step)
+        angular, self.max_angular, self.method = self._angular(orbital, n, l, refine, step)
+        self.table = radial.convolve(angular)
+        self.radii, self.radial_density = r, dens
+
+    @staticmethod
+    def _angular(orbital: Orbital, n: int, l: int, refine: int, step: float):
+        def density(t, azimuth):
+            part = orbital.shell_angular(*_unit(t, azimuth))[(n, l)]
+            return np.abs(part) ** 2
+
+        probe_t, _ = _midpoints(24, -1.0, 1.0)
+        probe_a, _ = _midpoints(24, 0.0, 2 * math.pi)
+        probe = density(probe_t[:, None], probe_a[None, :])
+        t, dt = _midpoints(DEFAULTS.polar_points * (l + 1) * refine, -1.0, 1.0)
+        if np.ptp(probe, axis=1).max() <= 1e-12 * probe.max():  # axially symmetric
+            f = density(t, np.zeros_like(t))
+            return _LogMass.of_samples(f, f * dt * 2 * math.pi, step), f.max(), "factorised"
+        if len(orbital.basis) == 1:  # real orbital: A = F(t) cos^2 or sin^2 (|m| azimuth)
+            (_, _, m), _ = orbital.basis[0]
+            peak = 0.0 if m > 0 else math.pi / (2 * abs(m))
+            f = density(t, np.full_like(t, peak))
+            a, da = _midpoints(DEFAULTS.azimuth_points * refine, 0.0, 2 * math.pi)
+            g = np.cos(a) ** 2
+            polar = _LogMass.of_samples(f, f * dt, step)
+            return polar.convolve(_LogMass.of_samples(g, g * da, step)), f.max(), "separable"
+        t2, dt2 = _midpoints(DEFAULTS.polar_points * (l + 1) * refine // 4, -1.0, 1.0)
+        a, da = _midpoints(DEFAULTS.polar_points * (l + 1) * refine // 2, 0.0, 2 * math.pi)
+        f = density(t2[:, None], a[None, :]).ravel()
+        return _LogMass.of_samples(f, f * dt2 * da, step), f.max(), "factorised"
+
+    def max_radius(self, level: float) -> float:
+        inside = self.radial_density * self.max_angular >= level
+        return float(self.radii[inside].max()) if inside.any() else 0.0
+
+
+class _Rays:
+    """A superposition of several shells, sampled on rays (product quadrature in r, t, azimuth).
+
+    A density that does not depend on azimuth needs one azimuth, so it gets 16 times the
+    polar rays for the same work.
+    """
+
+    method = "rays"
+
+    def __init__(self, orbital: Orbital, refine: int) -> None:
+        step = DEFAULTS.log_step / refine
+        shells = orbital.shells
+        n_top = max(n for n, _ in shells)
+        l_top = max(l for _, l in shells)
+        r_max = max(radial_extent(n, l, Z=orbital.length_charge) for n, l in shells)
+        u, du = _midpoints((300 + 100 * n_top) * refine, 0.0, 1.0)
+        self.radii = r = r_max * u * u
+        dr_mass = r * r * 2.0 * r_max * u * du
+        radial = {(n, l): orbital.radial(n, l, r) for n, l in shells}
+        axial = all(m == 0 for (_, _, m), _ in orbital.basis)
+        polar = DEFAULTS.ray_points * (l_top + 1) * refine * (16 if axial else 1)
+        t, dt = _midpoints(polar, -1.0, 1.0)
+        if axial:
+            a, da = np.zeros(1), 2 * math.pi
+        else:
+            a, da = _midpoints(2 * DEFAULTS.ray_points * (l_top + 1) * refine, 0.0, 2 * math.pi)
+        cell = dr_mass * dt * da
+        # |psi| <= sum over shells of max|R| * sum_m |b_m| max|S_lm|, max|S_lm| <= sqrt((2l+1)/2pi)
+        bound = sum(
+            np.abs(radial[(n, l)]).max() * abs(c) * math.sqrt((2 * l + 1) / (2 * math.pi))
+            for (n, l, _), c in orbital.basis
+        )
+        self.table = _LogMass(2.0 * math.log(bound) + 1.0, step, span=_SPAN + 20.0)
+        self.ring_max = np.empty((t.size, r.size))
+        block = max(1, DEFAULTS.ray_block // (a.size * r.size))
+        for first in range(0, t.size, block):  # blocks of polar rings, with a one-ring halo
+            lo, hi = max(first - 1, 0), min(first + block + 1, t.size)
+            x, y, z = _unit(np.repeat(t[lo:hi], a.size), np.tile(a, hi - lo))
+            angular = orbital.shell_angular(x, y, z)
+            psi = sum(np.outer(ang, radial[key]) for key, ang in angular.items())
+            dens = (np.abs(psi) ** 2 if not orbital.is_real else psi * psi).reshape(
+                hi - lo, a.size, r.size
+            )
+            del psi
+            logs = np.log(np.maximum(dens, np.finfo(np.float64).tiny))
+            sq = np.gradient(logs, axis=2) ** 2 + np.gradient(logs, axis=0) ** 2
+            if a.size > 1:  # azimuth is periodic
+                sq += (0.5 * (np.roll(logs, -1, axis=1) - np.roll(logs, 1, axis=1))) ** 2
+            own = slice(first - lo, first - lo + min(block, t.size - first))
+            dens, logs, sq = dens[own], logs[own], sq[own]
+            half = np.clip(0.5 * np.sqrt(sq), 0.5 * step, 8.0)
+            centre = logs + np.minimum(half, 1.0) ** 2 / 3.0
+            keep = dens > 0
+            mass = dens * cell
+            self.table.add((centre - half)[keep], (centre + half)[keep], mass[keep])
+            self.ring_max[first : first + dens.shape[0]] = dens.max(axis=1)
+
+    def max_radius(self, level: float) -> float:
+        hit = (self.ring_max >= level).any(axis=0)
+        return float(self.radii[hit].max()) if hit.any() else 0.0
+
+
+def _integrator(orbital: Orbital, refine: int) -> _Shell | _Rays:
+    return _Shell(orbital, refine) if len(orbital.shells) == 1 else _Rays(orbital, refine)
+
+
+def check_fraction(fraction: float) -> float:
+    """Return ``fraction`` as a float, refusing anything outside the open interval (0, 1)."""
+    try:
+        fraction = float(fraction)
+    except (TypeError, ValueError):
+        raise ParameterError(f"fraction must be a number in (0, 1), got {fraction!r}") from None
+    if not (math.isfinite(fraction) and 0.0 < fraction < 1.0):
+        raise ParameterError(f"fraction must be strictly between 0 and 1, got {fraction}")
+    return fraction
+
+
+def enclosed_probability(orbital: Orbital, levels: np.ndarray | float, /) -> np.ndarray:
+    """Probability inside {|psi|^2 >= c} for each level c (bohr^-3), by grid-free quadrature.
+
+    Parameters
+    ----------
+    orbital : Orbital
+        The state.
+    levels : float or (K,) array_like
+        Density levels in bohr^-3, > 0.
+
+    Returns
+    -------
+    (K,) ndarray
+        Enclosed probabilities in [0, 1].
+    """
+    levels = np.atleast_1d(np.asarray(levels, dtype=np.float64))
+    return _integrator(orbital, 1).table.above(np.log(levels))
+
+
+def enclosing_isovalue(orbital: Orbital, /, *, fraction: float = DEFAULTS.fraction) -> Isovalue:
+    """Find the density level c whose region {|psi|^2 >= c} holds probability ``fraction``.
+
+    Parameters
+    ----------
+    orbital : Orbital
+        The state.
+    fraction : float, default: 0.9
+        Probability to enclose, strictly between 0 and 1.
+
+    Returns
+    -------
+    Isovalue
+        The level, and the probability it encloses by a better estimate than the one solved on
+        (so ``enclosed_fraction - fraction`` estimates the error).
+
+    Notes
+    -----
+    A one-shell state is solved on the base quadrature and checked on one twice as fine
+    (typical agreement 1e-7). A superposition of several shells is solved on rays at twice the
+    base resolution; its ray quadrature converges at second order, so the check is the
+    Richardson extrapolation (4 P_fine - P_base) / 3 (typical error of the level 5e-5 in
+    probability, of the check under 1e-5, against brute-force sums).
+    """
+    fraction = check_fraction(fraction)
+    if len(orbital.shells) == 1:
+        solve, check = _Shell(orbital, 1), _Shell(orbital, 2)
+        level = math.exp(solve.table.level_above(fraction))
+        achieved = float(check.table.above(np.array([math.log(level)]))[0])
+    else:
+        base, solve = _Rays(orbital, 1), _Rays(orbital, 2)
+        check = solve
+        level = math.exp(solve.table.level_above(fraction))
+        at = np.array([math.log(level)])
+        achieved = float((4.0 * solve.table.above(at)[0] - base.table.above(at)[0]) / 3.0)
+    return Isovalue(level, fraction, achieved, check.max_radius(level), solve.method)

@@ -1,0 +1,245 @@
+"""The :class:`Orbital`: one hydrogen-like eigenstate or a normalised superposition of them."""
+
+from __future__ import annotations
+
+import cmath
+import math
+from collections.abc import Iterable
+from dataclasses import dataclass, field
+
+import numpy as np
+import numpy.typing as npt
+
+from orbviz._defaults import DEFAULTS
+from orbviz.angular import label_of, solid_harmonic_real
+from orbviz.errors import ParameterError, SpecError
+from orbviz.radial import (
+    check_charge,
+    check_quantum_numbers,
+    energy_hartree,
+    radial_function,
+    radial_function_reduced,
+)
+from orbviz.spec import Atom, parse_spec
+
+__all__ = ["Orbital", "proton_mass_ratio"]
+
+_SQRT_HALF = math.sqrt(0.5)
+
+
+def proton_mass_ratio() -> float:
+    """Reduced mass over electron mass for hydrogen, 1 / (1 + m_e/m_p), from CODATA (scipy)."""
+    from scipy.constants import physical_constants
+
+    return 1.0 / (1.0 + 1.0 / physical_constants["proton-electron mass ratio"][0])
+
+
+def _real_basis(atom: Atom) -> dict[tuple[int, int, int], complex]:
+    """Expand one atom in the orthonormal real basis (n, l, m_real).
+
+    Y_l^m = (-1)^m (S_m + i S_-m)/sqrt2 for m > 0, Y_l^-m = (S_m - i S_-m)/sqrt2, Y_l^0 = S_0,
+    which inverts the definition of the real harmonics in :mod:`orbviz.angular`.
+    """
+    n, l, m, c = atom.n, atom.l, atom.m, atom.coefficient
+    if atom.form == "real" or m == 0:
+        return {(n, l, m): c}
+    k = abs(m)
+    if m > 0:
+        s = (-1) ** k * _SQRT_HALF
+        return {(n, l, k): c * s, (n, l, -k): c * s * 1j}
+    return {(n, l, k): c * _SQRT_HALF, (n, l, -k): -1j * c * _SQRT_HALF}
+
+
+@dataclass(frozen=True)
+class Orbital:
+    """A normalised hydrogen-like state: psi = sum_k b_k R_{n_k l_k}(r) S_{l_k m_k}(direction).
+
+    Build one with :meth:`from_spec` or :meth:`from_atoms`; the coefficients are held in the
+    orthonormal basis of real orbitals, so norms and overlaps are exact.
+
+    Attributes
+    ----------
+    basis : tuple of ((n, l, m_real), complex)
+        Normalised coefficients on real orbitals, sorted by (n, l, m).
+    Z : float
+        Nuclear charge.
+    mass_ratio : float
+        Reduced mass over electron mass (1.0: infinite nuclear mass, no correction).
+    spec : str
+        The text the orbital was made from.
+    atoms : tuple of Atom
+        The states as written (for labels and quantum numbers).
+    given_norm : float
+        Norm of the weights as written, before normalisation.
+    notes : tuple of str
+        Remarks for the user (normalisation applied, global phase removed).
+
+    Notes
+    -----
+    Phase convention: Condon-Shortley for the complex harmonics; real orbitals with the chemistry
+    signs (px ~ +x, dxy ~ +xy). Units: bohr, hartree.
+    """
+
+    basis: tuple[tuple[tuple[int, int, int], complex], ...]
+    Z: float = 1.0
+    mass_ratio: float = 1.0
+    spec: str = ""
+    atoms: tuple[Atom, ...] = ()
+    given_norm: float = 1.0
+    notes: tuple[str, ...] = field(default=())
+
+    # ----------------------------------------------------------------- construction
+    @classmethod
+    def from_spec(
+        cls, spec: str, /, *, Z: float = 1.0, real: bool = False, mass_ratio: float = 1.0
+    ) -> Orbital:
+        """Parse spec text (see :mod:`orbviz.spec`) into a normalised orbital.
+
+        Parameters
+        ----------
+        spec : str
+            E.g. ``"3dz2"``, ``"4,2,-1"``, ``"0.5*2s + 0.866*2pz"``.
+        Z : float, default: 1.0
+            Nuclear charge, > 0.
+        real : bool, default: False
+            Read ``n,l,m`` states as real combinations rather than Lz eigenstates.
+        mass_ratio : float, default: 1.0
+            Reduced mass over electron mass; see :func:`proton_mass_ratio`.
+        """
+        atoms = parse_spec(spec)
+        if real:
+            atoms = [Atom(a.n, a.l, a.m, "real", a.coefficient) for a in atoms]
+        return cls.from_atoms(atoms, Z=Z, mass_ratio=mass_ratio, spec=spec.strip())
+
+    @classmethod
+    def from_atoms(
+        cls, atoms: Iterable[Atom], /, *, Z: float = 1.0, mass_ratio: float = 1.0, spec: str = ""
+    ) -> Orbital:
+        """Normalise weighted states into an orbital; see :meth:`from_spec`."""
+        Z = check_charge(Z)
+        if not (math.isfinite(mass_ratio) and 0 < mass_ratio <= 1):
+            raise ParameterError(f"mass ratio must be in (0, 1], got {mass_ratio}")
+        atoms = tuple(atoms)
+        if not atoms:
+            raise SpecError("an orbital needs at least one state")
+        merged: dict[tuple[int, int, int], complex] = {}
+        for atom in atoms:
+            check_quantum_numbers(atom.n, atom.l, atom.m)
+            for key, value in _real_basis(atom).items():
+                merged[key] = merged.get(key, 0j) + value
+        norm = math.sqrt(sum(abs(v) ** 2 for v in merged.values()))
+        scale = max(abs(v) for v in merged.values())
+        if norm == 0 or norm < 1e-12 * max(abs(a.coefficient) for a in atoms):
+            raise SpecError(f"the superposition {spec!r} is zero: its terms cancel")
+        keep = {
+            k: v / norm
+            for k, v in sorted(merged.items())
+            if abs(v) > DEFAULTS.coefficient_tolerance * scale
+        }
+        notes = []
+        if abs(norm - 1.0) > 1e-9:
+            notes.append(f"weights normalised: their norm was {norm:.6g}")
+        values = np.array(list(keep.values()))
+        if np.any(np.abs(values.imag) > 1e-12):
+            big = values[np.argmax(np.abs(values))]
+            turn = cmath.exp(-1j * cmath.phase(big))
+            if np.all(np.abs((values * turn).imag) < 1e-12):
+                keep = {k: complex((v * turn).real) for k, v in keep.items()}
+                notes.append(f"global phase {cmath.phase(big):+.6g} rad removed: the state is real")
+        basis = tuple((k, complex(v)) for k, v in keep.items())
+        return cls(basis, Z, float(mass_ratio), spec, atoms, norm, tuple(notes))
+
+    # ----------------------------------------------------------------- properties
+    @property
+    def length_charge(self) -> float:
+        """Charge that sets the length scale: Z times the mass ratio (a_mu = a0 / mass_ratio)."""
+        return self.Z * self.mass_ratio
+
+    @property
+    def is_real(self) -> bool:
+        """True if psi is real valued (after removing any global phase)."""
+        return all(abs(c.imag) == 0.0 for _, c in self.basis)
+
+    @property
+    def shells(self) -> list[tuple[int, int]]:
+        """Sorted distinct (n, l) present."""
+        return sorted({(n, l) for (n, l, _), _ in self.basis})
+
+    @property
+    def eigenstate(self) -> Atom | None:
+        """The single state this orbital is (form and m as written), or None for a superposition."""
+        distinct = {(a.n, a.l, a.m, a.form) for a in self.atoms}
+        if len(distinct) != 1:
+            return None
+        return self.atoms[0]
+
+    @property
+    def label(self) -> str:
+        """A short readable name: the chemistry label of an eigenstate, else the spec text."""
+        state = self.eigenstate
+        if state is None:
+            return self.spec
+        return label_of(state.n, state.l, state.m, real=state.form == "real")
+
+    @property
+    def energy_hartree(self) -> float:
+        """Energy, or its expectation value for a superposition of different n (hartree)."""
+        return sum(
+            abs(c) ** 2 * energy_hartree(n, Z=self.Z, mass_ratio=self.mass_ratio)
+            for (n, _, _), c in self.basis
+        )
+
+    @property
+    def is_energy_eigenstate(self) -> bool:
+        """True if every component has the same n (degenerate states only)."""
+        return len({n for (n, _, _), _ in self.basis}) == 1
+
+    # ----------------------------------------------------------------- evaluation
+    def shell_angular(
+        self, x: npt.ArrayLike, y: npt.ArrayLike, z: npt.ArrayLike
+    ) -> dict[tuple[int, int], np.ndarray]:
+        """Per shell (n, l): sum_m b_m S_lm at the points (solid harmonics, r^l included)."""
+        out: dict[tuple[int, int], np.ndarray] = {}
+        for (n, l, m), c in self.basis:
+            part = solid_harmonic_real(l, m, x, y, z)
+            term = part * (c if not self.is_real else c.real)
+            out[(n, l)] = out[(n, l)] + term if (n, l) in out else term
+        return out
+
+    def psi(
+        self, x: npt.ArrayLike, y: npt.ArrayLike, z: npt.ArrayLike, *, dtype: npt.DTypeLike = None
+    ) -> np.ndarray:
+        """Wavefunction at Cartesian points (bohr).
+
+        Parameters
+        ----------
+        x, y, z : array_like
+            Coordinates in bohr, broadcast together; the nucleus is at the origin.
+        dtype : dtype, optional
+            float32 or float64 working precision; by default that of the inputs (at least
+            float32).
+
+        Returns
+        -------
+        ndarray
+            psi in bohr^(-3/2): real for a real orbital, complex otherwise.
+        """
+        arrays = np.broadcast_arrays(np.asarray(x), np.asarray(y), np.asarray(z))
+        work = np.dtype(dtype) if dtype is not None else np.result_type(*arrays, np.float32)
+        x, y, z = (a.astype(work, copy=False) for a in arrays)
+        r = np.sqrt(x * x + y * y + z * z)
+        total = None
+        for (n, l), angular in self.shell_angular(x, y, z).items():
+            radial = radial_function_reduced(n, l, r, Z=self.length_charge, dtype=work)
+            term = radial * angular
+            total = term if total is None else total + term
+        return total
+
+    def density(self, x: npt.ArrayLike, y: npt.ArrayLike, z: npt.ArrayLike) -> np.ndarray:
+        """Probability density |psi|^2 (bohr^-3) at Cartesian points."""
+        value = self.psi(x, y, z)
+        return value * value if self.is_real else (value.real**2 + value.imag**2)
+
+    def radial(self, n: int, l: int, r: npt.ArrayLike) -> np.ndarray:
+        """R_nl(r) at this orbital's charge and mass ratio."""
+        return radial_function(n, l, r, Z=self.length_charge)
