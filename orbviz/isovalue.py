@@ -95,15 +95,28 @@ class _LogMass:
         table.add(low[keep], high[keep], masses[keep])
         return table
 
+    def trimmed(self, negligible: float = 1e-17) -> _LogMass:
+        """Return this table with its low tail (below ``negligible`` of the mass) at one node."""
+        first = int(np.searchsorted(np.cumsum(self.mass), negligible * self.mass.sum()))
+        if first <= 1:
+            return self
+        out = _LogMass.__new__(_LogMass)
+        out.step, out.size = self.step, self.size - first
+        out.bottom = self.bottom + first * self.step
+        out.mass = self.mass[first:].copy()
+        out.mass[0] += self.mass[:first].sum()
+        return out
+
     def convolve(self, other: _LogMass) -> _LogMass:
         """Distribution of the sum of the two log values (product of the values)."""
-        length = self.size + other.size - 1
+        a, b = self.trimmed(), other.trimmed()
+        length = a.size + b.size - 1
         nfft = 1 << (length - 1).bit_length()
-        mass = np.fft.irfft(np.fft.rfft(self.mass, nfft) * np.fft.rfft(other.mass, nfft), nfft)
+        mass = np.fft.irfft(np.fft.rfft(a.mass, nfft) * np.fft.rfft(b.mass, nfft), nfft)
         mass = np.maximum(mass[:length], 0.0)
         out = _LogMass.__new__(_LogMass)
         out.step, out.size = self.step, length
-        out.bottom = self.bottom + other.bottom
+        out.bottom = a.bottom + b.bottom
         out.mass = mass
         drop = max(0, length - int(math.ceil(_SPAN / self.step)) - 2)
         if drop:  # pool the far tail into the new bottom node

@@ -32,12 +32,12 @@ def radial_matrix_element(n1: int, n2: int, l: int, power: int, *, Z: float = 1.
     The integrand is a polynomial of degree n1 + n2 + power times exp(-Zr(1/n1 + 1/n2)), so
     ceil((n1 + n2 + power + 1) / 2) + 1 Gauss-Laguerre nodes integrate it exactly.
     """
-    from scipy.special import roots_laguerre
+    from numpy.polynomial.laguerre import laggauss
 
     from orbviz.radial import radial_function
 
     rate = Z * (1.0 / n1 + 1.0 / n2)
-    nodes, weights = roots_laguerre(max(2, (n1 + n2 + power + 2) // 2 + 1))
+    nodes, weights = laggauss(max(2, (n1 + n2 + power + 2) // 2 + 1))
     r = nodes / rate
     f = radial_function(n1, l, r, Z=Z) * radial_function(n2, l, r, Z=Z) * r ** (2 + power)
     return float(np.sum(weights * np.exp(nodes) * f) / rate)

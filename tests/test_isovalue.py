@@ -1,0 +1,148 @@
+"""The enclosing isovalue against closed forms, Monte Carlo and brute-force sums.
+
+Every reference here is built from scipy.special alone (tests/conftest.py), not from orbviz.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+from scipy.optimize import brentq
+from scipy.special import sph_harm_y
+
+from orbviz.isovalue import enclosed_probability, enclosing_isovalue
+from orbviz.orbital import Orbital
+from tests.conftest import reference_radial, reference_real_harmonic
+
+
+def _p_1s(rho: float) -> float:
+    # closed form P(r < R) = 1 - exp(-2 rho) (1 + 2 rho + 2 rho^2), rho = ZR (REFERENCES.md)
+    return 1.0 - math.exp(-2 * rho) * (1 + 2 * rho + 2 * rho * rho)
+
+
+def test_1s_ninety_percent_radius():
+    # the textbook 90% boundary of hydrogen 1s at rho ~ 2.661 (REFERENCES.md, common practice)
+    rho = brentq(lambda p: _p_1s(p) - 0.9, 0.1, 10)
+    assert rho == pytest.approx(2.661, abs=1e-3)
+
+
+@pytest.mark.parametrize("fraction", [0.05, 0.5, 0.9, 0.99, 0.999])
+@pytest.mark.parametrize("Z", [1.0, 2.0, 5.5])
+def test_1s_against_closed_form(fraction, Z):
+    iso = enclosing_isovalue(Orbital.from_spec("1s", Z=Z), fraction=fraction)
+    # the surface radius of level c is where Z^3/pi exp(-2Zr) = c; its closed-form probability
+    rho = -0.5 * math.log(iso.level * math.pi / Z**3)
+    assert _p_1s(rho) == pytest.approx(fraction, abs=1e-5)
+    assert iso.enclosed_fraction == pytest.approx(fraction, abs=1e-5)
+    assert iso.max_radius == pytest.approx(rho / Z, rel=1e-3)
+
+
+def _sample(n: int, l: int, m: int, count: int, rng: np.random.Generator):
+    """Points distributed as |psi|^2 of a real orbital, drawn with scipy-based functions only."""
+    r = np.linspace(0, 12.0 * n * n, 400_001)
+    pdf = (r * reference_radial(n, l, r)) ** 2
+    cdf = np.concatenate([[0.0], np.cumsum(0.5 * (pdf[1:] + pdf[:-1]) * np.diff(r))])
+    radii = np.interp(rng.uniform(0, cdf[-1], count), cdf, r)
+    polar, azimuth = np.empty(0), np.empty(0)
+    bound = (2 * l + 1) / (2 * math.pi)  # max |S_lm|^2 <= (2l+1)/2pi
+    while polar.size < count:  # rejection sampling of directions from |S_lm|^2
+        t = rng.uniform(-1, 1, count)
+        a = rng.uniform(0, 2 * math.pi, count)
+        y2 = reference_real_harmonic(l, m, np.arccos(t), a) ** 2
+        keep = rng.uniform(0, bound, count) < y2
+        polar, azimuth = np.append(polar, np.arccos(t[keep])), np.append(azimuth, a[keep])
+    polar, azimuth = polar[:count], azimuth[:count]
+    dens = reference_radial(n, l, radii) ** 2 * reference_real_harmonic(l, m, polar, azimuth) ** 2
+    return dens
+
+
+@pytest.mark.parametrize(
+    ("spec", "nlm"),
+    [("2pz", (2, 1, 0)), ("3dxy", (3, 2, -2)), ("3dz2", (3, 2, 0)), ("4fxyz", (4, 3, -2))],
+)
+def test_p_d_f_against_monte_carlo(spec, nlm, rng):
+    count = 400_000
+    iso = enclosing_isovalue(Orbital.from_spec(spec))
+    dens = _sample(*nlm, count, rng)
+    estimate = np.mean(dens >= iso.level)
+    sigma = math.sqrt(0.9 * 0.1 / count)  # binomial standard error
+    assert estimate == pytest.approx(0.9, abs=4 * sigma)
+
+
+def _fine_axisymmetric(psi_of, level: float, r_max: float) -> float:
+    """Brute-force midpoint sum of |psi|^2 over {|psi|^2 >= level}, for psi(r, cos polar)."""
+    nr, nt = 20_000, 4_000
+    r = (np.arange(nr) + 0.5) * (r_max / nr)
+    total = 0.0
+    for t in np.array_split((np.arange(nt) + 0.5) * (2.0 / nt) - 1.0, 20):
+        d = psi_of(r[None, :], t[:, None]) ** 2
+        mass = d * (r * r)[None, :] * (r_max / nr) * (2.0 / nt) * 2 * math.pi
+        total += mass[d >= level].sum()
+    return total
+
+
+@pytest.mark.parametrize(
+    ("spec", "n", "l", "m"),
+    [("2pz", 2, 1, 0), ("3dz2", 3, 2, 0), ("2,1,1", 2, 1, 1), ("4,3,-2", 4, 3, -2)],
+)
+def test_p_d_and_complex_against_fine_grid(spec, n, l, m):
+    # a complex eigenstate's density |R Y_l^m|^2 does not depend on azimuth
+    iso = enclosing_isovalue(Orbital.from_spec(spec))
+
+    def psi(r, t):
+        return reference_radial(n, l, r) * np.abs(sph_harm_y(l, m, np.arccos(t), 0.0))
+
+    assert _fine_axisymmetric(psi, iso.level, 80.0) == pytest.approx(0.9, abs=1e-4)
+
+
+def test_axisymmetric_superposition_against_fine_grid():
+    orbital = Orbital.from_spec("0.6*2s + 0.8*2pz")
+    iso = enclosing_isovalue(orbital)
+
+    def psi(r, t):
+        y00 = np.real(sph_harm_y(0, 0, np.arccos(t), 0.0))
+        y10 = np.real(sph_harm_y(1, 0, np.arccos(t), 0.0))
+        return 0.6 * y00 * reference_radial(2, 0, r) + 0.8 * y10 * reference_radial(2, 1, r)
+
+    assert _fine_axisymmetric(psi, iso.level, 60.0) == pytest.approx(0.9, abs=1e-4)
+    assert iso.enclosed_fraction == pytest.approx(0.9, abs=1e-4)
+
+
+@pytest.mark.slow
+def test_complex_superposition_against_fine_grid():
+    # psi = [(1+i) Y_1^1 R_21 - S_2,-2 R_32] / sqrt3 on a spherical midpoint grid (scipy only)
+    orbital = Orbital.from_spec("(1+1j)*2,1,1 - 3dxy")
+    iso = enclosing_isovalue(orbital)
+    nr, nt, na, r_max = 1500, 600, 1200, 45.0
+    u = (np.arange(nr) + 0.5) / nr
+    r, dr = r_max * u * u, 2 * r_max * u / nr
+    azimuth = (np.arange(na) + 0.5) * (2 * math.pi / na)
+    r21, r32 = reference_radial(2, 1, r), reference_radial(3, 2, r)
+    total = 0.0
+    for t in (np.arange(nt) + 0.5) * (2.0 / nt) - 1.0:
+        polar = math.acos(t)
+        y11 = sph_harm_y(1, 1, polar, azimuth)
+        s22 = reference_real_harmonic(2, -2, polar, azimuth)
+        psi = (np.outer((1 + 1j) * y11, r21) - np.outer(s22, r32)) / math.sqrt(3)
+        d = np.abs(psi) ** 2
+        mass = d * (r * r * dr)[None, :] * (2.0 / nt) * (2 * math.pi / na)
+        total += mass[d >= iso.level].sum()
+    assert total == pytest.approx(0.9, abs=1e-4)
+    assert iso.enclosed_fraction == pytest.approx(total, abs=3e-5)
+
+
+@pytest.mark.parametrize("spec", ["2s", "3pz", "4dxz", "5,3,2", "10,4,-3", "20,5,3", "30,0,0"])
+def test_achieved_fraction_on_finer_quadrature(spec):
+    iso = enclosing_isovalue(Orbital.from_spec(spec), fraction=0.9)
+    assert iso.enclosed_fraction == pytest.approx(0.9, abs=1e-5)
+
+
+def test_enclosed_probability_of_1s_closed_form():
+    rho = np.array([0.5, 1.0, 2.0, 4.0])
+    levels = np.exp(-2 * rho) / math.pi
+    expected = [_p_1s(p) for p in rho]
+    np.testing.assert_allclose(
+        enclosed_probability(Orbital.from_spec("1s"), levels), expected, atol=2e-6
+    )
