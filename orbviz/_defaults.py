@@ -15,6 +15,11 @@ class Defaults:
     ----------
     fraction : float
         Probability enclosed by the isosurface (0.9 is common teaching practice, no source).
+    grid : int
+        Samples per axis of the mesh grid; meets the vertex-level accuracy targets of
+        ../docs/meshes.md.
+    box_coverage : float
+        Probability the sampling box must hold at least.
     radial_tail : float
         Radial probability left outside the radial quadrature range.
     radial_points : int
@@ -37,6 +42,8 @@ class Defaults:
     """
 
     fraction: float = 0.9
+    grid: int = 128
+    box_coverage: float = 0.999
     radial_tail: float = 1e-13
     radial_points: int = 6000
     polar_points: int = 1024

@@ -106,6 +106,67 @@ def _cmd_info(args: argparse.Namespace) -> int:
     return 0
 
 
+def _positive_int(kind: str) -> Callable[[str], int]:
+    def parse(text: str) -> int:
+        try:
+            value = int(text)
+        except ValueError:
+            raise argparse.ArgumentTypeError(
+                f"{kind} must be a whole number, got {text!r}"
+            ) from None
+        if value <= 0:
+            raise argparse.ArgumentTypeError(f"{kind} must be > 0, got {value}")
+        return value
+
+    return parse
+
+
+def _write_json(path: str, data: dict) -> None:
+    from pathlib import Path
+
+    from orbviz.export import atomic_paths
+
+    with atomic_paths(Path(path)) as (temp,):
+        temp.write_text(json.dumps(data, indent=2) + "\n")
+
+
+def _cmd_mesh(args: argparse.Namespace) -> int:
+    from orbviz.colors import DEFAULT_PAIR, parse_colors
+    from orbviz.export import check_output, unit_scale, write_bodies
+
+    out = check_output(args.output)
+    if args.report:
+        check_output(args.report, suffixes={".json": None})
+    unit_scale(args.units)
+    colors = parse_colors(args.colors) if args.colors else DEFAULT_PAIR
+    orbital = _orbital(args)
+    from orbviz.mesh import build_mesh
+
+    result = build_mesh(
+        orbital,
+        fraction=args.fraction,
+        grid=args.grid,
+        smoothing=args.smooth,
+        faces=args.faces,
+        colors=colors,
+    )
+    written = write_bodies(result.bodies, out, units=args.units)
+    report = result.report()
+    report["files"] = [str(p) for p in written]
+    report["units"] = args.units
+    if args.report:
+        _write_json(args.report, report)
+    pieces = ", ".join(
+        f"{b['name']} ({b['pieces']} piece{'s' * (b['pieces'] != 1)})" for b in report["bodies"]
+    )
+    print(
+        f"wrote {', '.join(str(p) for p in written)}: {report['faces']} faces, {pieces}; "
+        f"isovalue {report['isovalue']:.4e} bohr^-3 encloses {100 * args.fraction:g}%; "
+        f"watertight: {'yes' if report['watertight'] else 'NO'}"
+    )
+    return 0
+
+
 def _build_parser() -> _Parser:
     parser = _Parser(
         prog="orbviz",
@@ -126,6 +187,54 @@ def _build_parser() -> _Parser:
     _add_orbital_options(info)
     info.add_argument("--json", action="store_true", help="print one JSON object")
     info.set_defaults(run=_cmd_info)
+    mesh = sub.add_parser(
+        "mesh",
+        help="closed phase-coloured isosurface meshes (STL, OBJ, glTF/GLB, PLY, 3MF)",
+        description="Closed isosurface bodies enclosing --fraction of the probability, one per "
+        "phase, written in the format the output suffix names. Coordinates in bohr unless "
+        "--units says otherwise; nucleus at the origin, z the quantisation axis.",
+        epilog=SPEC_HELP,
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    _add_orbital_options(mesh)
+    mesh.add_argument(
+        "-o",
+        "--output",
+        required=True,
+        metavar="FILE",
+        help="output: .stl .obj .glb .gltf .ply .3mf",
+    )
+    mesh.add_argument(
+        "--grid",
+        type=_positive_int("grid"),
+        default=DEFAULTS.grid,
+        help=f"samples per axis (default {DEFAULTS.grid})",
+    )
+    mesh.add_argument(
+        "--faces", type=_positive_int("faces"), metavar="N", help="decimate to about N faces in all"
+    )
+    mesh.add_argument(
+        "--smooth",
+        type=int,
+        nargs="?",
+        const=10,
+        default=0,
+        metavar="ITER",
+        help="Taubin smoothing (10 iterations if no number is given)",
+    )
+    mesh.add_argument(
+        "--units",
+        default="bohr",
+        choices=["bohr", "angstrom", "nm", "pm"],
+        help="length unit of the coordinates (default bohr)",
+    )
+    mesh.add_argument(
+        "--colors",
+        metavar="POS,NEG",
+        help="phase colours as hex, e.g. '#0072B2,#D55E00' (the default)",
+    )
+    mesh.add_argument("--report", metavar="FILE.json", help="write mesh statistics as JSON")
+    mesh.set_defaults(run=_cmd_mesh)
     return parser
 
 

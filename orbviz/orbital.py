@@ -240,6 +240,17 @@ class Orbital:
         value = self.psi(x, y, z)
         return value * value if self.is_real else (value.real**2 + value.imag**2)
 
+    def radial_distribution(self, r: npt.ArrayLike) -> np.ndarray:
+        """Radial probability density r^2 times the integral of |psi|^2 over directions (1/bohr).
+
+        The real angular basis is orthonormal, so this is r^2 sum_(l,m) |sum_n b_nlm R_nl(r)|^2.
+        """
+        r = np.asarray(r, dtype=np.float64)
+        groups: dict[tuple[int, int], np.ndarray] = {}
+        for (n, l, m), c in self.basis:
+            groups[(l, m)] = groups.get((l, m), 0) + c * self.radial(n, l, r)
+        return r * r * sum(np.abs(g) ** 2 for g in groups.values())
+
     def radial(self, n: int, l: int, r: npt.ArrayLike) -> np.ndarray:
         """R_nl(r) at this orbital's charge and mass ratio."""
         return radial_function(n, l, r, Z=self.length_charge)

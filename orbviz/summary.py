@@ -67,11 +67,7 @@ def _most_probable_radius(orbital: Orbital) -> float:
     lo, hi = 0.0, max(radial_extent(n, l, Z=Z) for n, l in orbital.shells)
     for _ in range(6):
         r = np.linspace(lo, hi, 4001)
-        groups: dict[tuple[int, int], np.ndarray] = {}
-        for (n, l, m), c in orbital.basis:
-            groups[(l, m)] = groups.get((l, m), 0) + c * orbital.radial(n, l, r)
-        p = r**2 * sum(np.abs(g) ** 2 for g in groups.values())
-        i = int(np.argmax(p))
+        i = int(np.argmax(orbital.radial_distribution(r)))
         step = r[1] - r[0]
         lo, hi = max(r[i] - step, 0.0), r[i] + step
     return 0.5 * (lo + hi)

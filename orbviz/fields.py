@@ -1,0 +1,199 @@
+"""The real scalar field that is contoured, as one fused numexpr expression.
+
+Which field depends on the state (see ../docs/meshes.md):
+
+* ``signed``: a real orbital or real superposition, psi itself, contoured at +-sqrt(level);
+* ``envelope``: a complex eigenstate psi = g e^{i m azimuth}: the real envelope g, contoured at
+  +-sqrt(level), so that the nodal cones separate lobes as they should;
+* ``modulus``: any other complex state: |psi|, contoured at +sqrt(level).
+
+The expression is built from exact polynomial coefficients: solid harmonics r^l S_lm expanded in
+monomials of x, y, z (the same normalised recurrence as :mod:`orbviz.angular`), Laguerre
+polynomials by Horner's rule, so no trigonometry and no division appear. numexpr evaluates it in
+float64 blocks that stay in cache and stores float32 when asked.
+"""
+
+from __future__ import annotations
+
+import math
+from collections import defaultdict
+from dataclasses import dataclass
+
+import numpy as np
+import numpy.typing as npt
+
+from orbviz.errors import ParameterError
+from orbviz.orbital import Orbital
+from orbviz.radial import _log_norm
+
+__all__ = ["Field", "field_of"]
+
+Poly = dict[tuple[int, int, int], float]
+_MAX_HORNER_DEGREE = 14  # beyond this the monomial Laguerre form loses digits in float64
+
+
+def _mul(a: Poly, b: Poly) -> Poly:
+    out: Poly = defaultdict(float)
+    for ka, va in a.items():
+        for kb, vb in b.items():
+            out[(ka[0] + kb[0], ka[1] + kb[1], ka[2] + kb[2])] += va * vb
+    return dict(out)
+
+
+def _add(a: Poly, b: Poly, scale: float = 1.0) -> Poly:
+    out: Poly = defaultdict(float, a)
+    for k, v in b.items():
+        out[k] += scale * v
+    return dict(out)
+
+
+def _theta_poly(l: int, m: int) -> Poly:
+    """S_l^m(z, r^2) of :func:`orbviz.angular._theta_polynomial` as a polynomial in x, y, z."""
+    c = math.sqrt((2 * m + 1) / (4 * math.pi))
+    for k in range(1, m + 1):
+        c *= math.sqrt((2 * k - 1) / (2 * k))
+    if m % 2:
+        c = -c
+    prev: Poly = {(0, 0, 0): c}
+    if l == m:
+        return prev
+    z: Poly = {(0, 0, 1): 1.0}
+    r2: Poly = {(2, 0, 0): 1.0, (0, 2, 0): 1.0, (0, 0, 2): 1.0}
+    cur = {k: v * math.sqrt(2 * m + 3) for k, v in _mul(z, prev).items()}
+    for ll in range(m + 2, l + 1):
+        a = math.sqrt((4 * ll * ll - 1) / (ll * ll - m * m))
+        b = math.sqrt(((ll - 1) ** 2 - m * m) / (4 * (ll - 1) ** 2 - 1))
+        nxt = _add(_mul(z, cur), _mul(r2, prev), -b)
+        prev, cur = cur, {k: a * v for k, v in nxt.items()}
+    return cur
+
+
+def _xy_power(m: int) -> tuple[Poly, Poly]:
+    re: Poly = {(0, 0, 0): 1.0}
+    im: Poly = {}
+    x: Poly = {(1, 0, 0): 1.0}
+    y: Poly = {(0, 1, 0): 1.0}
+    for _ in range(m):
+        re, im = _add(_mul(re, x), _mul(im, y), -1.0), _add(_mul(im, x), _mul(re, y))
+    return re, im
+
+
+def _real_solid_poly(l: int, m: int) -> Poly:
+    """r^l S_lm (chemistry signs) as a polynomial; matches :func:`solid_harmonic_real`."""
+    theta = _theta_poly(l, abs(m))
+    if m == 0:
+        return theta
+    re, im = _xy_power(abs(m))
+    factor = math.sqrt(2.0) * (-1) ** abs(m)
+    return {k: factor * v for k, v in _mul(theta, re if m > 0 else im).items()}
+
+
+def _poly_expr(poly: Poly) -> str:
+    terms = []
+    for (a, b, c), v in sorted(poly.items()):
+        if abs(v) < 1e-300:
+            continue
+        factors = [repr(float(v))]
+        factors += [
+            f"{name}**{p}" if p > 1 else name for name, p in (("x", a), ("y", b), ("z", c)) if p
+        ]
+        terms.append("*".join(factors))
+    return "(" + " + ".join(terms) + ")" if terms else "0.0"
+
+
+def _radial_expr(n: int, l: int, Z: float) -> str:
+    """R_nl / r^l as text: N (2Z/n)^l exp(-Zr/n) L_{n-l-1}^{2l+1}(2Zr/n), Horner form."""
+    k, alpha = n - l - 1, 2 * l + 1
+    scale = math.exp(_log_norm(n, l, Z) + l * math.log(2.0 * Z / n))
+    q = 2.0 * Z / n
+    # L_k^alpha(rho) = sum_i (-1)^i C(k + alpha, k - i) rho^i / i!
+    coeffs = [
+        (-1) ** i * math.comb(k + alpha, k - i) / math.factorial(i) * q**i for i in range(k + 1)
+    ]
+    horner = repr(coeffs[-1])
+    for c in reversed(coeffs[:-1]):
+        horner = f"({horner}*R + {c!r})"
+    text = f"{scale!r}*exp({-0.5 * q!r}*R)*{horner}"
+    return text.replace("R", "sqrt(x**2 + y**2 + z**2)")
+
+
+@dataclass(frozen=True)
+class Field:
+    """A real scalar field of an orbital, evaluated by one numexpr expression.
+
+    Attributes
+    ----------
+    kind : {"signed", "envelope", "modulus"}
+        Which field (see the module docstring).
+    expression : str
+        numexpr text in x, y, z (bohr).
+    orbital : Orbital
+        The state it belongs to.
+    """
+
+    kind: str
+    expression: str
+    orbital: Orbital
+
+    @property
+    def two_sided(self) -> bool:
+        """True if the field is contoured at both +sqrt(level) and -sqrt(level)."""
+        return self.kind != "modulus"
+
+    def __call__(
+        self,
+        x: npt.ArrayLike,
+        y: npt.ArrayLike,
+        z: npt.ArrayLike,
+        *,
+        out: np.ndarray | None = None,
+    ) -> np.ndarray:
+        """Evaluate at broadcastable coordinates (bohr); into ``out`` (e.g. float32) if given."""
+        import numexpr
+
+        names = {"x": np.asarray(x), "y": np.asarray(y), "z": np.asarray(z)}
+        return numexpr.evaluate(self.expression, local_dict=names, out=out, casting="unsafe")
+
+    def gradient(self, points: np.ndarray, step: float = 1e-4) -> np.ndarray:
+        """Central-difference gradient at (V, 3) points, float64 (step in bohr)."""
+        points = np.asarray(points, dtype=np.float64)
+        grad = np.empty_like(points)
+        for axis in range(3):
+            plus, minus = points.copy(), points.copy()
+            plus[:, axis] += step
+            minus[:, axis] -= step
+            grad[:, axis] = (self(*plus.T) - self(*minus.T)) / (2 * step)
+        return grad
+
+
+def field_of(orbital: Orbital, /) -> Field:
+    """Build the contoured field of an orbital (see the module docstring)."""
+    Z = orbital.length_charge
+    state = orbital.eigenstate
+    if any(n - l - 1 > _MAX_HORNER_DEGREE for n, l in orbital.shells):
+        raise ParameterError(
+            f"surfaces need n - l - 1 <= {_MAX_HORNER_DEGREE} radial nodes, got (n, l) in "
+            f"{orbital.shells}"
+        )
+    if orbital.is_real:
+        shells: dict[tuple[int, int], Poly] = {}
+        for (n, l, m), c in orbital.basis:
+            shells[(n, l)] = _add(shells.get((n, l), {}), _real_solid_poly(l, m), c.real)
+        text = " + ".join(
+            f"{_radial_expr(n, l, Z)}*{_poly_expr(p)}" for (n, l), p in shells.items()
+        )
+        return Field("signed", text, orbital)
+    if state is not None and state.form == "complex" and len(orbital.shells) == 1:
+        n, l, m = state.n, state.l, state.m
+        theta = _poly_expr(_theta_poly(l, abs(m)))
+        rho = f"(x**2 + y**2)**{abs(m) / 2!r}"
+        return Field("envelope", f"{_radial_expr(n, l, Z)}*{theta}*{rho}", orbital)
+    real_part: dict[tuple[int, int], Poly] = {}
+    imag_part: dict[tuple[int, int], Poly] = {}
+    for (n, l, m), c in orbital.basis:
+        poly = _real_solid_poly(l, m)
+        real_part[(n, l)] = _add(real_part.get((n, l), {}), poly, c.real)
+        imag_part[(n, l)] = _add(imag_part.get((n, l), {}), poly, c.imag)
+    re = " + ".join(f"{_radial_expr(n, l, Z)}*{_poly_expr(p)}" for (n, l), p in real_part.items())
+    im = " + ".join(f"{_radial_expr(n, l, Z)}*{_poly_expr(p)}" for (n, l), p in imag_part.items())
+    return Field("modulus", f"sqrt(({re})**2 + ({im})**2)", orbital)
