@@ -33,3 +33,66 @@ def reference_real_harmonic(l: int, m: int, polar, azimuth) -> np.ndarray:
 @pytest.fixture
 def rng() -> np.random.Generator:
     return np.random.default_rng(20261202)
+
+
+def reference_psi(terms, x, y, z, Z: float = 1.0) -> np.ndarray:
+    """psi of a superposition from scipy only: terms are (coef, n, l, m, form) with orthonormal
+    (non-overlapping) states, normalised here by sqrt(sum |coef|^2)."""
+    r = np.sqrt(x * x + y * y + z * z)
+    polar = np.arccos(np.clip(z / np.where(r > 0, r, 1.0), -1, 1))
+    azimuth = np.arctan2(y, x)
+    total = np.zeros(np.shape(r), dtype=complex)
+    norm = math.sqrt(sum(abs(c) ** 2 for c, *_ in terms))
+    for c, n, l, m, form in terms:
+        angular = (
+            reference_real_harmonic(l, m, polar, azimuth)
+            if form == "real"
+            else sph_harm_y(l, m, polar, azimuth)
+        )
+        total += c / norm * reference_radial(n, l, r, Z) * angular
+    return total
+
+
+def gltf_validator_dir():
+    """Folder with node_modules/gltf-validator, or None (.ci/run installs it for CI)."""
+    import os
+    from pathlib import Path
+
+    for candidate in [
+        os.environ.get("ORBVIZ_GLTF_VALIDATOR"),
+        Path(__file__).resolve().parents[1] / ".ci" / "node",
+    ]:
+        if candidate and (Path(candidate) / "node_modules" / "gltf-validator").is_dir():
+            return Path(candidate) / "node_modules"
+    return None
+
+
+def sample_density(n: int, l: int, m: int, count: int, rng: np.random.Generator):
+    """Points distributed as |psi|^2 of a real orbital, drawn with scipy-based functions only."""
+    r = np.linspace(0, 12.0 * n * n, 400_001)
+    pdf = (r * reference_radial(n, l, r)) ** 2
+    cdf = np.concatenate([[0.0], np.cumsum(0.5 * (pdf[1:] + pdf[:-1]) * np.diff(r))])
+    radii = np.interp(rng.uniform(0, cdf[-1], count), cdf, r)
+    polar, azimuth = np.empty(0), np.empty(0)
+    bound = (2 * l + 1) / (2 * math.pi)  # max |S_lm|^2 <= (2l+1)/2pi
+    while polar.size < count:  # rejection sampling of directions from |S_lm|^2
+        t = rng.uniform(-1, 1, count)
+        a = rng.uniform(0, 2 * math.pi, count)
+        y2 = reference_real_harmonic(l, m, np.arccos(t), a) ** 2
+        keep = rng.uniform(0, bound, count) < y2
+        polar, azimuth = np.append(polar, np.arccos(t[keep])), np.append(azimuth, a[keep])
+    polar, azimuth = polar[:count], azimuth[:count]
+    dens = reference_radial(n, l, radii) ** 2 * reference_real_harmonic(l, m, polar, azimuth) ** 2
+    return dens
+
+
+def fine_axisymmetric(psi_of, level: float, r_max: float) -> float:
+    """Brute-force midpoint sum of |psi|^2 over {|psi|^2 >= level}, for psi(r, cos polar)."""
+    nr, nt = 20_000, 4_000
+    r = (np.arange(nr) + 0.5) * (r_max / nr)
+    total = 0.0
+    for t in np.array_split((np.arange(nt) + 0.5) * (2.0 / nt) - 1.0, 20):
+        d = psi_of(r[None, :], t[:, None]) ** 2
+        mass = d * (r * r)[None, :] * (r_max / nr) * (2.0 / nt) * 2 * math.pi
+        total += mass[d >= level].sum()
+    return total

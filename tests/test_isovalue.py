@@ -14,7 +14,12 @@ from scipy.special import sph_harm_y
 
 from orbviz.isovalue import enclosed_probability, enclosing_isovalue
 from orbviz.orbital import Orbital
-from tests.conftest import reference_radial, reference_real_harmonic
+from tests.conftest import (
+    fine_axisymmetric,
+    reference_radial,
+    reference_real_harmonic,
+    sample_density,
+)
 
 
 def _p_1s(rho: float) -> float:
@@ -39,25 +44,6 @@ def test_1s_against_closed_form(fraction, Z):
     assert iso.max_radius == pytest.approx(rho / Z, rel=1e-3)
 
 
-def _sample(n: int, l: int, m: int, count: int, rng: np.random.Generator):
-    """Points distributed as |psi|^2 of a real orbital, drawn with scipy-based functions only."""
-    r = np.linspace(0, 12.0 * n * n, 400_001)
-    pdf = (r * reference_radial(n, l, r)) ** 2
-    cdf = np.concatenate([[0.0], np.cumsum(0.5 * (pdf[1:] + pdf[:-1]) * np.diff(r))])
-    radii = np.interp(rng.uniform(0, cdf[-1], count), cdf, r)
-    polar, azimuth = np.empty(0), np.empty(0)
-    bound = (2 * l + 1) / (2 * math.pi)  # max |S_lm|^2 <= (2l+1)/2pi
-    while polar.size < count:  # rejection sampling of directions from |S_lm|^2
-        t = rng.uniform(-1, 1, count)
-        a = rng.uniform(0, 2 * math.pi, count)
-        y2 = reference_real_harmonic(l, m, np.arccos(t), a) ** 2
-        keep = rng.uniform(0, bound, count) < y2
-        polar, azimuth = np.append(polar, np.arccos(t[keep])), np.append(azimuth, a[keep])
-    polar, azimuth = polar[:count], azimuth[:count]
-    dens = reference_radial(n, l, radii) ** 2 * reference_real_harmonic(l, m, polar, azimuth) ** 2
-    return dens
-
-
 @pytest.mark.parametrize(
     ("spec", "nlm"),
     [("2pz", (2, 1, 0)), ("3dxy", (3, 2, -2)), ("3dz2", (3, 2, 0)), ("4fxyz", (4, 3, -2))],
@@ -65,22 +51,10 @@ def _sample(n: int, l: int, m: int, count: int, rng: np.random.Generator):
 def test_p_d_f_against_monte_carlo(spec, nlm, rng):
     count = 400_000
     iso = enclosing_isovalue(Orbital.from_spec(spec))
-    dens = _sample(*nlm, count, rng)
+    dens = sample_density(*nlm, count, rng)
     estimate = np.mean(dens >= iso.level)
     sigma = math.sqrt(0.9 * 0.1 / count)  # binomial standard error
     assert estimate == pytest.approx(0.9, abs=4 * sigma)
-
-
-def _fine_axisymmetric(psi_of, level: float, r_max: float) -> float:
-    """Brute-force midpoint sum of |psi|^2 over {|psi|^2 >= level}, for psi(r, cos polar)."""
-    nr, nt = 20_000, 4_000
-    r = (np.arange(nr) + 0.5) * (r_max / nr)
-    total = 0.0
-    for t in np.array_split((np.arange(nt) + 0.5) * (2.0 / nt) - 1.0, 20):
-        d = psi_of(r[None, :], t[:, None]) ** 2
-        mass = d * (r * r)[None, :] * (r_max / nr) * (2.0 / nt) * 2 * math.pi
-        total += mass[d >= level].sum()
-    return total
 
 
 @pytest.mark.parametrize(
@@ -94,7 +68,7 @@ def test_p_d_and_complex_against_fine_grid(spec, n, l, m):
     def psi(r, t):
         return reference_radial(n, l, r) * np.abs(sph_harm_y(l, m, np.arccos(t), 0.0))
 
-    assert _fine_axisymmetric(psi, iso.level, 80.0) == pytest.approx(0.9, abs=1e-4)
+    assert fine_axisymmetric(psi, iso.level, 80.0) == pytest.approx(0.9, abs=1e-4)
 
 
 def test_axisymmetric_superposition_against_fine_grid():
@@ -106,7 +80,7 @@ def test_axisymmetric_superposition_against_fine_grid():
         y10 = np.real(sph_harm_y(1, 0, np.arccos(t), 0.0))
         return 0.6 * y00 * reference_radial(2, 0, r) + 0.8 * y10 * reference_radial(2, 1, r)
 
-    assert _fine_axisymmetric(psi, iso.level, 60.0) == pytest.approx(0.9, abs=1e-4)
+    assert fine_axisymmetric(psi, iso.level, 60.0) == pytest.approx(0.9, abs=1e-4)
     assert iso.enclosed_fraction == pytest.approx(0.9, abs=1e-4)
 
 

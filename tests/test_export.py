@@ -1,0 +1,289 @@
+"""Every format read back by an independent reader; the Khronos validator; safe writes."""
+
+from __future__ import annotations
+
+import json
+import os
+import shutil
+import subprocess
+from pathlib import Path
+
+import numpy as np
+import pytest
+from scipy.constants import physical_constants
+
+from orbviz.cli import main
+from orbviz.colors import DEFAULT_PAIR
+from orbviz.export import write_bodies
+from orbviz.mesh import build_mesh
+from orbviz.orbital import Orbital
+from tests.conftest import gltf_validator_dir
+
+
+@pytest.fixture(scope="module")
+def real_mesh():
+    return build_mesh(Orbital.from_spec("3dz2"), grid=64)
+
+
+@pytest.fixture(scope="module")
+def complex_mesh():
+    return build_mesh(Orbital.from_spec("3,2,1"), grid=64)
+
+
+def _triangles(bodies, scale=1.0):
+    return np.vstack([b.vertices[b.faces] * scale for b in bodies])
+
+
+def _same_triangles(a: np.ndarray, b: np.ndarray, tol: float) -> None:
+    key = lambda t: np.lexsort(np.round(t.reshape(len(t), -1) / tol).T)  # noqa: E731
+    np.testing.assert_allclose(a[key(a)], b[key(b)], atol=tol)
+
+
+def test_stl_round_trip_numpy_stl(real_mesh, tmp_path):
+    from stl import mesh as stl_mesh  # numpy-stl, an independent STL reader
+
+    path = tmp_path / "a.stl"
+    write_bodies(real_mesh.bodies, path)
+    back = stl_mesh.Mesh.from_file(str(path))
+    _same_triangles(back.vectors.astype(float), _triangles(real_mesh.bodies), 1e-4)
+    # binary STL: 80-byte header, count, 50 bytes a triangle
+    assert path.stat().st_size == 84 + 50 * len(back.vectors)
+
+
+def test_units_scale_by_codata_bohr_radius(real_mesh, tmp_path):
+    from stl import mesh as stl_mesh
+
+    path = tmp_path / "a.stl"
+    write_bodies(real_mesh.bodies, path, units="angstrom")
+    a0 = physical_constants["Bohr radius"][0] / 1e-10  # CODATA, in angstrom
+    back = stl_mesh.Mesh.from_file(str(path))
+    _same_triangles(back.vectors.astype(float), _triangles(real_mesh.bodies, a0), 1e-4)
+
+
+def test_obj_round_trip_and_own_material_file(real_mesh, tmp_path):
+    import meshio
+    import trimesh
+
+    write_bodies(real_mesh.bodies, tmp_path / "a.obj")
+    write_bodies(real_mesh.bodies, tmp_path / "b.obj")
+    assert (tmp_path / "a.mtl").exists() and (tmp_path / "b.mtl").exists()
+    text = (tmp_path / "a.obj").read_text()
+    assert "mtllib a.mtl" in text and "o positive" in text and "o negative" in text
+    back = meshio.read(tmp_path / "a.obj")  # meshio: geometry
+    assert len(back.points) == sum(len(b.vertices) for b in real_mesh.bodies)
+    scene = trimesh.load(tmp_path / "a.obj", process=False)  # trimesh: objects and materials
+    assert set(scene.geometry) == {"positive", "negative"}
+    for body in real_mesh.bodies:
+        assert len(scene.geometry[body.name].faces) == len(body.faces)
+        material = scene.geometry[body.name].visual.material
+        np.testing.assert_allclose(np.asarray(material.main_color)[:3], body.colors[0][:3], atol=1)
+
+
+def test_obj_complex_has_vertex_colours(complex_mesh, tmp_path):
+    written = write_bodies(complex_mesh.bodies, tmp_path / "c.obj")
+    assert written == [tmp_path / "c.obj"]
+    first = next(
+        line for line in (tmp_path / "c.obj").read_text().splitlines() if line.startswith("v ")
+    )
+    assert len(first.split()) == 7  # v x y z r g b
+
+
+@pytest.mark.parametrize("suffix", [".glb", ".gltf"])
+def test_gltf_round_trip(real_mesh, tmp_path, suffix):
+    import trimesh
+
+    path = tmp_path / f"a{suffix}"
+    written = write_bodies(real_mesh.bodies, path)
+    if suffix == ".gltf":
+        assert written == [path, tmp_path / "a.bin"]
+        assert json.loads(path.read_text())["buffers"][0]["uri"] == "a.bin"
+    scene = trimesh.load(path, process=False)
+    assert set(scene.geometry) == {"positive", "negative"}
+    for body in real_mesh.bodies:
+        geometry = scene.geometry[body.name]
+        np.testing.assert_allclose(geometry.visual.material.baseColorFactor, body.colors[0])
+        # vertex data keep the physics frame (z is the quantisation axis)
+        np.testing.assert_allclose(
+            np.sort(geometry.vertices[:, 2]), np.sort(body.vertices[:, 2]), atol=1e-5
+        )
+    # one root rotation turns z up in +Y-up viewers: the world y of the mesh is physics z
+    world = scene.to_mesh()
+    original = np.vstack([b.vertices for b in real_mesh.bodies])
+    assert world.bounds[1][1] == pytest.approx(original[:, 2].max(), abs=1e-4)
+
+
+def _validate(path: Path) -> dict:
+    modules = gltf_validator_dir()
+    if modules is None:
+        if os.environ.get("CI"):
+            pytest.fail("gltf-validator is not installed: .ci/run must install it")
+        pytest.skip("gltf-validator not installed (run .ci/run, or npm install it to .ci/node)")
+    node = shutil.which("node")
+    script = Path(__file__).parent / "tools" / "gltf_validate.cjs"
+    out = subprocess.run(
+        [node, str(script), str(path)],
+        capture_output=True,
+        text=True,
+        env={**os.environ, "NODE_PATH": str(modules)},
+        check=True,
+    )
+    return json.loads(out.stdout)
+
+
+@pytest.mark.parametrize("suffix", [".glb", ".gltf"])
+@pytest.mark.parametrize("which", ["real_mesh", "complex_mesh"])
+def test_khronos_validator(request, tmp_path, suffix, which):
+    result = request.getfixturevalue(which)
+    path = tmp_path / f"m{suffix}"
+    write_bodies(result.bodies, path)
+    report = _validate(path)  # the Khronos reference validator
+    assert report["issues"]["numErrors"] == 0, report["issues"]["messages"][:5]
+
+
+def test_ply_round_trip_meshio(real_mesh, tmp_path):
+    import meshio
+
+    path = tmp_path / "a.ply"
+    write_bodies(real_mesh.bodies, path)
+    assert path.read_bytes().startswith(b"ply\nformat binary_little_endian")
+    back = meshio.read(path)  # an independent PLY reader
+    assert len(back.points) == sum(len(b.vertices) for b in real_mesh.bodies)
+    np.testing.assert_allclose(
+        back.point_data["phase"], np.concatenate([b.phase for b in real_mesh.bodies])
+    )
+    # the header says uchar; meshio 5 hands uchar back as int8, so view the bytes as uint8
+    colours = np.stack(
+        [back.point_data[c].view(np.uint8) for c in ("red", "green", "blue")], axis=1
+    )
+    np.testing.assert_array_equal(colours, np.vstack([b.colors[:, :3] for b in real_mesh.bodies]))
+    assert set(np.unique(back.point_data["body"])) == {0, 1}
+
+
+def test_3mf_round_trip_lib3mf(real_mesh, tmp_path):
+    import lib3mf  # the 3MF Consortium's reference library
+
+    path = tmp_path / "a.3mf"
+    write_bodies(real_mesh.bodies, path)
+    wrapper = lib3mf.get_wrapper()
+    model = wrapper.CreateModel()
+    model.QueryReader("3mf").ReadFromFile(str(path))
+    assert model.GetUnit() == lib3mf.ModelUnit.MilliMeter
+    objects = model.GetMeshObjects()
+    found = {}
+    while objects.MoveNext():
+        obj = objects.GetCurrentMeshObject()
+        resource, prop, has = obj.GetObjectLevelProperty()
+        assert has
+        group = model.GetBaseMaterialGroupByID(resource)
+        colour = group.GetDisplayColor(prop)
+        found[obj.GetName()] = (
+            obj.GetVertexCount(),
+            obj.GetTriangleCount(),
+            (colour.Red, colour.Green, colour.Blue),
+            obj.IsManifoldAndOriented(),
+        )
+    for body in real_mesh.bodies:
+        count_v, count_f, rgb, closed = found[body.name]
+        assert (count_v, count_f) == (len(body.vertices), len(body.faces))
+        assert rgb == tuple(int(c) for c in body.colors[0][:3])
+        assert closed
+
+
+def test_default_colours_are_okabe_ito_blue_and_vermillion():
+    # Okabe & Ito (2008) palette: blue #0072B2, vermillion #D55E00
+    assert DEFAULT_PAIR[0][:3] == (0x00, 0x72, 0xB2) and DEFAULT_PAIR[1][:3] == (0xD5, 0x5E, 0x00)
+
+
+# ---------------------------------------------------------------- safe writes, via the CLI
+
+
+def test_failed_write_leaves_nothing_and_keeps_old_file(tmp_path, monkeypatch, capsys):
+    target = tmp_path / "a.stl"
+    target.write_bytes(b"keep me")
+    import trimesh.exchange.stl
+
+    def broken(*args, **kwargs):
+        raise OSError("disk full (simulated)")
+
+    monkeypatch.setattr(trimesh.exchange.stl, "export_stl", broken)
+    status = main(["mesh", "2pz", "--grid", "32", "-o", str(target)])
+    assert status != 0
+    assert target.read_bytes() == b"keep me"
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["a.stl"]
+    assert "Traceback" not in capsys.readouterr().err
+
+
+@pytest.mark.parametrize(
+    ("name", "fragment"),
+    [("x.abc", "unknown suffix"), ("missing/x.stl", "does not exist"), ("x", "unknown suffix")],
+)
+def test_bad_output_refused_before_any_computation(tmp_path, monkeypatch, capsys, name, fragment):
+    import orbviz.mesh
+
+    def must_not_run(*args, **kwargs):
+        raise AssertionError("computation started")
+
+    monkeypatch.setattr(orbviz.mesh, "build_mesh", must_not_run)
+    status = main(["mesh", "2pz", "-o", str(tmp_path / name)])
+    err = capsys.readouterr().err
+    assert status == 2 and fragment in err and err.count("\n") == 1
+
+
+def test_unwritable_folder(tmp_path, capsys, monkeypatch):
+    # CI runs as root, who may write anywhere: simulate the permission check answering no
+    import orbviz.export
+
+    folder = tmp_path / "ro"
+    folder.mkdir()
+    real_access = os.access
+    monkeypatch.setattr(
+        orbviz.export.os,
+        "access",
+        lambda p, mode: False if Path(p) == folder else real_access(p, mode),
+    )
+    status = main(["mesh", "2pz", "-o", str(folder / "x.stl")])
+    assert status == 2 and "not writable" in capsys.readouterr().err
+
+
+def test_mesh_command_and_report(tmp_path, capsys):
+    out = tmp_path / "m.glb"
+    status = main(
+        ["mesh", "2pz", "--grid", "48", "-o", str(out), "--report", str(tmp_path / "m.json")]
+    )
+    assert status == 0 and out.exists()
+    report = json.loads((tmp_path / "m.json").read_text())
+    for key in [
+        "isovalue",
+        "grid_enclosed_fraction",
+        "in_box_probability",
+        "vertices",
+        "faces",
+        "watertight",
+        "bodies",
+    ]:
+        assert key in report
+    assert {b["name"] for b in report["bodies"]} == {"positive", "negative"}
+    assert all(
+        b["watertight"] and b["volume_bohr3"] > 0 and b["area_bohr2"] > 0 for b in report["bodies"]
+    )
+    # 2pz lobes are mirror images: equal volume (symmetry of |Y_10|^2 under z -> -z)
+    a, b = report["bodies"]
+    assert a["volume_bohr3"] == pytest.approx(b["volume_bohr3"], rel=1e-6)
+
+
+@pytest.mark.parametrize(
+    ("argv", "fragment"),
+    [
+        (["--grid", "8"], "between 16 and 2048"),
+        (["--grid", "0"], "> 0"),
+        (["--faces", "10"], "at least 100"),
+        (["--units", "furlong"], "invalid choice"),
+        (["--colors", "red,blue"], "hex"),
+        (["--fraction", "1.2"], "between 0 and 1"),
+    ],
+)
+def test_mesh_bad_options(tmp_path, capsys, argv, fragment):
+    status = main(["mesh", "2pz", "-o", str(tmp_path / "x.stl"), *argv])
+    err = capsys.readouterr().err
+    assert status == 2 and fragment in err and err.count("\n") == 1
+    assert not any(tmp_path.iterdir())

@@ -1,0 +1,182 @@
+"""Meshes: vertices on the level set, closed bodies of the right sign and count, safe writes."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+from scipy.optimize import brentq
+from scipy.special import sph_harm_y
+
+from orbviz.errors import ParameterError
+from orbviz.mesh import build_mesh
+from orbviz.orbital import Orbital
+from tests.conftest import fine_axisymmetric, reference_psi, reference_radial, sample_density
+
+# (spec, terms for the scipy reference): the default grid must meet the accuracy targets
+CASES = {
+    "1s": [(1, 1, 0, 0, "real")],
+    "2pz": [(1, 2, 1, 0, "real")],
+    "3dz2": [(1, 3, 2, 0, "real")],
+    "3dxy": [(1, 3, 2, -2, "real")],
+    "4fxyz": [(1, 4, 3, -2, "real")],
+    "3s": [(1, 3, 0, 0, "real")],
+    "4,2,1": [(1, 4, 2, 1, "complex")],
+    "0.6*2s+0.8*2pz": [(0.6, 2, 0, 0, "real"), (0.8, 2, 1, 0, "real")],
+    "(1+1j)*2,1,1 - 3dxy": [(1 + 1j, 2, 1, 1, "complex"), (-1, 3, 2, -2, "real")],
+}
+
+
+@pytest.fixture(scope="module")
+def meshes():
+    return {spec: build_mesh(Orbital.from_spec(spec)) for spec in CASES}
+
+
+@pytest.mark.parametrize("spec", sorted(CASES))
+def test_vertices_lie_on_the_level_set(meshes, spec):
+    # exact |psi|^2 at the vertices from scipy's functions, 5-95% band within +-5% of the level
+    result = meshes[spec]
+    level = result.isovalue.level
+    vertices = np.vstack([b.vertices for b in result.bodies])
+    dens = np.abs(reference_psi(CASES[spec], *vertices.T)) ** 2 / level
+    low, high = np.percentile(dens, [5, 95])
+    assert 0.95 <= low and high <= 1.05
+
+
+@pytest.mark.parametrize("spec", sorted(CASES))
+def test_bodies_closed_outward_no_degenerate_faces(meshes, spec):
+    for body in meshes[spec].bodies:
+        mesh = body.to_trimesh()
+        assert mesh.is_watertight and mesh.is_winding_consistent
+        assert mesh.volume > 0
+        assert mesh.area_faces.min() > 0
+        # gradient normals point outward: they agree with the face normals around each vertex
+        assert np.mean(np.einsum("ij,ij->i", mesh.vertex_normals, body.normals) > 0.9) > 0.99
+
+
+@pytest.mark.parametrize("spec", ["2pz", "3dz2", "3dxy", "4fxyz", "3s", "0.6*2s+0.8*2pz"])
+def test_each_body_has_its_sign(meshes, spec):
+    result = meshes[spec]
+    for body in result.bodies:
+        inside = body.vertices - 0.05 * result.grid.spacing * body.normals
+        psi = reference_psi(CASES[spec], *inside.T).real
+        expected = 1 if body.name == "positive" else -1
+        assert np.all(np.sign(psi) == expected)
+
+
+def test_1s_volume_against_r90_sphere(meshes):
+    # 1s 90% boundary from the closed form P(rho) = 1 - e^(-2 rho)(1 + 2 rho + 2 rho^2)
+    rho = brentq(lambda p: 1 - math.exp(-2 * p) * (1 + 2 * p + 2 * p * p) - 0.9, 0.1, 10)
+    (body,) = meshes["1s"].bodies
+    assert body.to_trimesh().volume == pytest.approx(4 / 3 * math.pi * rho**3, rel=0.01)
+
+
+def test_median_vertex_level_encloses_the_fraction_1s(meshes):
+    # probability enclosed at the median vertex density, by the 1s closed form: within 0.5%
+    (body,) = meshes["1s"].bodies
+    dens = np.abs(reference_psi(CASES["1s"], *body.vertices.T)) ** 2
+    rho = -0.5 * math.log(np.median(dens) * math.pi)
+    assert 1 - math.exp(-2 * rho) * (1 + 2 * rho + 2 * rho * rho) == pytest.approx(0.9, abs=0.005)
+
+
+AXISYMMETRIC = {  # psi(r, t = cos polar) from scipy, for a brute-force midpoint sum
+    "2pz": lambda r, t: reference_radial(2, 1, r) * np.real(sph_harm_y(1, 0, np.arccos(t), 0.0)),
+    "4,2,1": lambda r, t: reference_radial(4, 2, r) * np.abs(sph_harm_y(2, 1, np.arccos(t), 0.0)),
+    "0.6*2s+0.8*2pz": lambda r, t: (
+        0.6 * reference_radial(2, 0, r) / math.sqrt(4 * math.pi)
+        + 0.8 * reference_radial(2, 1, r) * np.real(sph_harm_y(1, 0, np.arccos(t), 0.0))
+    ),
+}
+
+
+@pytest.mark.parametrize("spec", sorted(AXISYMMETRIC))
+def test_median_vertex_level_encloses_the_fraction(meshes, spec):
+    result = meshes[spec]
+    vertices = np.vstack([b.vertices for b in result.bodies])
+    median = np.median(np.abs(reference_psi(CASES[spec], *vertices.T)) ** 2)
+    estimate = fine_axisymmetric(AXISYMMETRIC[spec], median, 2 * result.grid.half_width)
+    assert estimate == pytest.approx(0.9, abs=0.005)
+
+
+def test_median_vertex_level_encloses_the_fraction_3dxy(meshes, rng):
+    # Monte Carlo with points drawn from |psi|^2 (scipy sampler): sigma = 4.7e-4
+    (body_p, body_n) = meshes["3dxy"].bodies
+    vertices = np.vstack([body_p.vertices, body_n.vertices])
+    median = np.median(np.abs(reference_psi(CASES["3dxy"], *vertices.T)) ** 2)
+    dens = sample_density(3, 2, -2, 400_000, rng)
+    assert np.mean(dens >= median) == pytest.approx(0.9, abs=0.005)
+
+
+def _lobe_maxima(n, l, axis_factor):
+    """Radial lobes' maximum densities along a direction where |angular part|^2 = axis_factor."""
+    r = np.linspace(1e-6, 12 * n * n, 400_001)
+    d = reference_radial(n, l, r) ** 2 * axis_factor
+    sign = np.sign(reference_radial(n, l, r))
+    edges = np.flatnonzero(sign[1:] != sign[:-1])
+    pieces = np.split(d, edges + 1)
+    return [p.max() for p in pieces]
+
+
+def test_nested_shells_of_3s(meshes):
+    # 3s: radial lobes alternate in sign; the innermost above the level is a ball (1 surface),
+    # every other one a shell (2 surfaces). Expected counts from scipy's R_30 (1/4pi angular)
+    result = meshes["3s"]
+    maxima = _lobe_maxima(3, 0, 1 / (4 * math.pi))
+    signs = [1, -1, 1]
+    surfaces = {"positive": 0, "negative": 0}
+    for k, (peak, s) in enumerate(zip(maxima, signs, strict=True)):
+        if peak >= result.isovalue.level:
+            surfaces["positive" if s > 0 else "negative"] += 1 if k == 0 else 2
+    got = {b.name: len(b.to_trimesh().split(only_watertight=False)) for b in result.bodies}
+    assert got == {k: v for k, v in surfaces.items() if v}
+
+
+def test_separate_lobes_of_4p():
+    # 4pz: each radial lobe above the level gives one closed piece per hemisphere; the sign
+    # alternates with the lobe and flips between hemispheres (scipy R_41, |Y_10|^2 = 3/4pi on z)
+    result = build_mesh(Orbital.from_spec("4pz"))
+    maxima = _lobe_maxima(4, 1, 3 / (4 * math.pi))
+    above = [k for k, peak in enumerate(maxima) if peak >= result.isovalue.level]
+    # one piece per lobe and hemisphere; the two hemispheres of a lobe have opposite signs
+    expected = {"positive": len(above), "negative": len(above)}
+    assert len(above) >= 2
+    got = {b.name: len(b.to_trimesh().split(only_watertight=False)) for b in result.bodies}
+    assert got == expected
+
+
+def test_complex_surface_is_coloured_by_phase(meshes):
+    # the phase property is arg psi at the vertex (scipy), and it spans many hues
+    (body,) = meshes["4,2,1"].bodies
+    psi = reference_psi(CASES["4,2,1"], *body.vertices.T)
+    diff = np.angle(np.exp(1j * (body.phase - np.angle(psi))))
+    assert np.abs(diff).max() < 1e-4
+    hues = {tuple(c) for c in (body.colors[:, :3] // 32)}
+    assert len(hues) >= 12
+
+
+def test_smoothing_and_decimation_stay_closed_and_recolour():
+    result = build_mesh(Orbital.from_spec("3dz2"), smoothing=10, faces=5000)
+    assert sum(len(b.faces) for b in result.bodies) <= 5500
+    for body in result.bodies:
+        mesh = body.to_trimesh()
+        assert mesh.is_watertight and mesh.volume > 0
+        # colours were evaluated again at the new vertices: sign of scipy psi matches the body
+        psi = reference_psi(CASES["3dz2"], *body.vertices.T).real
+        assert np.all(np.sign(psi) == (1 if body.name == "positive" else -1))
+
+
+def test_memory_refusal(monkeypatch):
+    import orbviz.grid
+
+    monkeypatch.setattr(orbviz.grid, "available_bytes", lambda: 2**30)
+    with pytest.raises(ParameterError, match=r"GiB"):
+        build_mesh(Orbital.from_spec("2pz"), grid=1024)
+
+
+def test_in_box_probability_and_clearance(meshes):
+    for spec, result in meshes.items():
+        report = result.report()
+        assert report["in_box_probability"] >= 0.999 - 2e-4, spec  # box holds >= 99.9%
+        for body in result.bodies:  # the surface stays three cells clear of the box faces
+            assert np.abs(body.vertices).max() <= result.grid.half_width - 2 * result.grid.spacing
