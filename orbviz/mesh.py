@@ -9,6 +9,7 @@ from typing import Any
 import numpy as np
 
 from orbviz._defaults import DEFAULTS
+from orbviz.checks import mesh_facts
 from orbviz.colors import DEFAULT_PAIR
 from orbviz.errors import ParameterError
 from orbviz.fields import field_of
@@ -61,17 +62,17 @@ class OrbitalMesh:
         above, total = self.grid.probability_sums(self.isovalue.level)
         bodies = []
         for body in self.bodies:
-            mesh = body.to_trimesh()
+            facts = mesh_facts(body.vertices, body.faces)
             bodies.append(
                 {
                     "name": body.name,
                     "vertices": len(body.vertices),
                     "faces": len(body.faces),
-                    "pieces": int(len(mesh.split(only_watertight=False))),
-                    "volume_bohr3": float(mesh.volume),
-                    "area_bohr2": float(mesh.area),
-                    "watertight": bool(mesh.is_watertight),
-                    "winding_consistent": bool(mesh.is_winding_consistent),
+                    "pieces": facts.pieces,
+                    "volume_bohr3": facts.volume,
+                    "area_bohr2": facts.area,
+                    "watertight": facts.watertight,
+                    "winding_consistent": facts.consistent,
                 }
             )
         return {

@@ -180,3 +180,28 @@ def test_in_box_probability_and_clearance(meshes):
         assert report["in_box_probability"] >= 0.999 - 2e-4, spec  # box holds >= 99.9%
         for body in result.bodies:  # the surface stays three cells clear of the box faces
             assert np.abs(body.vertices).max() <= result.grid.half_width - 2 * result.grid.spacing
+
+
+@pytest.mark.parametrize("spec", ["3dz2", "3s", "4,2,1"])
+def test_numpy_checks_agree_with_trimesh(meshes, spec):
+    # orbviz.checks against trimesh's own volume, area, watertightness and split
+    from orbviz.checks import mesh_facts
+
+    for body in meshes[spec].bodies:
+        facts = mesh_facts(body.vertices, body.faces)
+        mesh = body.to_trimesh()
+        assert facts.volume == pytest.approx(mesh.volume, rel=1e-12)
+        assert facts.area == pytest.approx(mesh.area, rel=1e-12)
+        assert facts.closed == mesh.is_watertight and facts.consistent == mesh.is_winding_consistent
+        assert facts.pieces == len(mesh.split(only_watertight=False))
+
+
+def test_checks_catch_an_open_mesh(meshes):
+    from orbviz.checks import mesh_facts
+
+    body = meshes["2pz"].bodies[0]
+    facts = mesh_facts(body.vertices, body.faces[1:])  # one triangle removed: a hole
+    assert not facts.closed and not facts.watertight
+    flipped = body.faces.copy()
+    flipped[0] = flipped[0, ::-1]  # one triangle wound the wrong way
+    assert not mesh_facts(body.vertices, flipped).consistent
