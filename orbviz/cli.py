@@ -167,6 +167,67 @@ def _cmd_mesh(args: argparse.Namespace) -> int:
     return 0
 
 
+def _size(text: str) -> tuple[int, int]:
+    try:
+        w, h = (int(v) for v in text.lower().split("x"))
+    except ValueError:
+        raise argparse.ArgumentTypeError(
+            f"size must be WIDTHxHEIGHT like 1600x1200, got {text!r}"
+        ) from None
+    return w, h
+
+
+def _cmd_render(args: argparse.Namespace) -> int:
+    from orbviz.colors import DEFAULT_PAIR, parse_colors
+    from orbviz.export import check_output
+
+    out = check_output(args.output, suffixes={".png": None})
+    from orbviz.render import FigureOptions, parse_view
+
+    options = FigureOptions(
+        size=args.size,
+        scale=args.scale,
+        view=parse_view(args.view),
+        transparent=args.transparent,
+        background=args.background,
+        axes=not args.no_axes,
+        scale_bar=None if args.scale_bar == "none" else args.scale_bar,
+        title=args.title,
+        lighting=args.lighting,
+        nodes=args.nodes,
+        cut=args.cut,
+        outer=args.outer,
+        extent=args.extent,
+        colors=parse_colors(args.colors) if args.colors else DEFAULT_PAIR,
+    ).checked()
+    orbital = _orbital(args)
+    from orbviz.render import figure, render_png
+
+    fig = figure(orbital, fraction=args.fraction, grid=args.grid, options=options)
+    render_png(fig, out)
+    w, h = (round(v * options.scale) for v in options.size)
+    print(f"wrote {out} ({w}x{h}): {orbital.label}, {100 * args.fraction:g}% isovalue")
+    return 0
+
+
+def _cmd_plot(args: argparse.Namespace) -> int:
+    from orbviz.export import check_output
+
+    out = check_output(args.output, suffixes={".png": None, ".svg": None, ".pdf": None})
+    orbital = _orbital(args)
+    from orbviz.plot import radial_figure, save_figure, slice_figure
+
+    if args.kind == "slice":
+        fig, _ = slice_figure(
+            orbital, plane=args.plane, fraction=args.fraction, extent=args.extent, title=args.title
+        )
+    else:
+        fig, _ = radial_figure(orbital, title=args.title)
+    save_figure(fig, out)
+    print(f"wrote {out}: {args.kind} plot of {orbital.label}")
+    return 0
+
+
 def _build_parser() -> _Parser:
     parser = _Parser(
         prog="orbviz",
@@ -235,6 +296,78 @@ def _build_parser() -> _Parser:
     )
     mesh.add_argument("--report", metavar="FILE.json", help="write mesh statistics as JSON")
     mesh.set_defaults(run=_cmd_mesh)
+
+    render = sub.add_parser(
+        "render",
+        help="a publication figure of the isosurface, rendered off-screen to PNG",
+        description="An orthographic, phase-coloured figure of the isosurface enclosing "
+        "--fraction, rendered without a display. Complex states get a phase wheel.",
+        epilog=SPEC_HELP,
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    _add_orbital_options(render)
+    render.add_argument("-o", "--output", required=True, metavar="FILE.png")
+    render.add_argument("--grid", type=_positive_int("grid"), default=DEFAULTS.grid)
+    render.add_argument(
+        "--size",
+        type=_size,
+        default=(1600, 1200),
+        metavar="WxH",
+        help="image size in pixels (default 1600x1200)",
+    )
+    render.add_argument(
+        "--scale",
+        type=_finite("scale"),
+        default=1.0,
+        help="resolution multiplier, e.g. 2 for print (default 1)",
+    )
+    render.add_argument("--view", default="iso", help="iso, x, y, z or AZ,EL in degrees")
+    render.add_argument("--transparent", action="store_true", help="transparent background")
+    render.add_argument("--background", default="white", help="background colour")
+    render.add_argument("--no-axes", action="store_true", help="leave out the axes triad")
+    render.add_argument("--scale-bar", default="angstrom", choices=["angstrom", "bohr", "none"])
+    render.add_argument("--title", help="a label at the top left")
+    render.add_argument("--lighting", default="soft", choices=["soft", "studio", "flat"])
+    render.add_argument(
+        "--nodes",
+        action="store_true",
+        help="draw the radial and angular nodal surfaces translucent",
+    )
+    render.add_argument(
+        "--cut", choices=["half", "quarter"], help="cut away x > 0 (half) or x > 0, y > 0 (quarter)"
+    )
+    render.add_argument(
+        "--outer",
+        type=_finite("outer"),
+        metavar="F",
+        help="add a translucent surface enclosing this larger fraction",
+    )
+    render.add_argument(
+        "--extent",
+        type=_finite("extent"),
+        metavar="L",
+        help="fix the box and the view to half-width L bohr (comparable sets)",
+    )
+    render.add_argument("--colors", metavar="POS,NEG", help="phase colours as hex")
+    render.set_defaults(run=_cmd_render)
+
+    plot = sub.add_parser(
+        "plot",
+        help="2D companions: a density slice or the radial distribution (PNG, SVG, PDF)",
+        description="A density slice through the nucleus with the isovalue and nodes, or the "
+        "radial distribution with nodes, <r> and the most probable radius.",
+        epilog=SPEC_HELP,
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    _add_orbital_options(plot)
+    plot.add_argument("--kind", required=True, choices=["slice", "radial"])
+    plot.add_argument("-o", "--output", required=True, metavar="FILE")
+    plot.add_argument("--plane", default="xz", choices=["xz", "xy", "yz"])
+    plot.add_argument(
+        "--extent", type=_finite("extent"), metavar="L", help="half-width of the slice in bohr"
+    )
+    plot.add_argument("--title")
+    plot.set_defaults(run=_cmd_plot)
     return parser
 
 

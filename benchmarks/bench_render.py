@@ -1,0 +1,53 @@
+"""Benchmark: `orbviz render` of 3dz2 at 256^3, 1600x1200, as a whole process on 2 cores.
+
+Target (issue 4): at most 3 s. Reported beside `orbviz mesh` of the same orbital and grid (the
+part of the work that is not rendering) and bare `import pyvista`, measured in the same run.
+Run: python benchmarks/bench_render.py
+"""
+
+from __future__ import annotations
+
+import json
+import statistics
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+REPEATS = 5
+
+
+def wall(argv: list[str]) -> float:
+    times = []
+    for _ in range(REPEATS):
+        start = time.perf_counter()
+        subprocess.run(argv, check=True, capture_output=True)
+        times.append(time.perf_counter() - start)
+    return statistics.median(times)
+
+
+def main() -> None:
+    with tempfile.TemporaryDirectory() as tmp:
+        png, glb = str(Path(tmp) / "f.png"), str(Path(tmp) / "m.glb")
+        orbviz = [sys.executable, "-m", "orbviz"]
+        render = wall(
+            [*orbviz, "render", "3dz2", "--grid", "256", "--size", "1600x1200", "-o", png]
+        )
+        mesh = wall([*orbviz, "mesh", "3dz2", "--grid", "256", "-o", glb])
+        pyvista = wall([sys.executable, "-c", "import pyvista.plotting"])
+    result = {
+        "render_3dz2_256_1600x1200_s": render,
+        "render_over_target_3s": render / 3.0,
+        "mesh_same_grid_s": mesh,
+        "import_pyvista_plotting_s": pyvista,
+        "render_over_mesh": render / mesh,
+    }
+    print(json.dumps(result, indent=2))
+    out = Path(__file__).with_name("results")
+    out.mkdir(exist_ok=True)
+    (out / "render.json").write_text(json.dumps(result, indent=2) + "\n")
+
+
+if __name__ == "__main__":
+    main()
