@@ -29,7 +29,12 @@ class MeshFacts:
     consistent : bool
         Every directed edge occurs once, so neighbouring faces agree in winding.
     pieces : int
-        Connected pieces (through shared vertices).
+        Connected surface pieces (through shared vertices).
+    solids : int
+        Separate solid bodies: surface pieces that enclose positive volume. A body with a closed
+        internal cavity has one outer piece and one inward-facing piece per cavity.
+    cavities : int
+        Closed internal voids: surface pieces that enclose negative volume.
     """
 
     volume: float
@@ -37,6 +42,8 @@ class MeshFacts:
     closed: bool
     consistent: bool
     pieces: int
+    solids: int = 0
+    cavities: int = 0
 
     @property
     def watertight(self) -> bool:
@@ -69,4 +76,8 @@ def mesh_facts(vertices: np.ndarray, faces: np.ndarray) -> MeshFacts:
     used[tail] = True
     count, labels = connected_components(graph, directed=False)
     pieces = int(np.count_nonzero(np.bincount(labels[used], minlength=count)))
-    return MeshFacts(volume, area, closed, consistent, pieces)
+    signed = np.einsum("ij,ij->i", a, cross) / 6.0
+    per_piece = np.bincount(labels[faces[:, 0]], weights=signed, minlength=count)
+    solids = int(np.count_nonzero(per_piece > 0))
+    cavities = int(np.count_nonzero(per_piece < 0))
+    return MeshFacts(volume, area, closed, consistent, pieces, solids, cavities)

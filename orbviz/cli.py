@@ -228,6 +228,77 @@ def _cmd_plot(args: argparse.Namespace) -> int:
     return 0
 
 
+def _cmd_model(args: argparse.Namespace) -> int:
+    from pathlib import Path
+
+    from orbviz.colors import DEFAULT_PAIR, parse_colors
+    from orbviz.export import check_output
+
+    out = check_output(args.output, suffixes={".stl": None, ".3mf": None})
+    if args.split and out.suffix.lower() != ".stl":
+        raise ParameterError("--split writes one STL per part: give an .stl output")
+    if args.report:
+        check_output(args.report, suffixes={".json": None})
+    colors = parse_colors(args.colors) if args.colors else DEFAULT_PAIR
+    orbital = _orbital(args)
+    from orbviz.model import build_model
+
+    model = build_model(
+        orbital,
+        size=args.size,
+        rod=args.rod,
+        min_feature=args.min_feature,
+        stand=args.stand,
+        cut=args.cut,
+        fraction=args.fraction,
+        grid=args.grid,
+        colors=colors,
+    )
+    for check in model.checks:
+        print(f"{check.level}: {check.message}")
+    from orbviz.export import atomic_paths
+    from orbviz.export.stl import write as write_stl
+    from orbviz.export.threemf import write as write_3mf
+
+    if out.suffix.lower() == ".3mf":
+        written = write_3mf(model.bodies("parts"), out, scale=1.0, units="mm")
+    elif args.split:
+        bodies = model.bodies("parts")
+        targets = [out.with_name(f"{out.stem}-{b.name}.stl") for b in bodies]
+        from trimesh.exchange.stl import export_stl
+
+        from orbviz.export._scene import combined_mesh
+
+        with atomic_paths(*targets) as temps:
+            for body, temp in zip(bodies, temps, strict=True):
+                temp.write_bytes(export_stl(combined_mesh([body], 1.0)))
+        written = targets
+    else:
+        written = write_stl(model.bodies("solid"), out, scale=1.0, units="mm")
+    facts = model.facts()
+    report = {
+        "spec": orbital.spec,
+        "size_mm": args.size,
+        "rod_mm": model.rod_mm,
+        "mm_per_bohr": model.mm_per_bohr,
+        "volume_mm3": facts.volume,
+        "watertight": facts.watertight,
+        "solids": facts.solids,
+        "cavities": facts.cavities,
+        "parts": sorted(model.parts),
+        "checks": [vars(c) for c in model.checks],
+        "files": [str(p) for p in written],
+    }
+    if args.report:
+        _write_json(args.report, report)
+    print(
+        f"wrote {', '.join(str(Path(p)) for p in written)}: {args.size:g} mm, one body of "
+        f"{facts.volume / 1000:.3g} cm^3, rod {model.rod_mm:.2g} mm, parts "
+        f"{', '.join(sorted(model.parts))}"
+    )
+    return 0
+
+
 def _build_parser() -> _Parser:
     parser = _Parser(
         prog="orbviz",
@@ -368,6 +439,48 @@ def _build_parser() -> _Parser:
     )
     plot.add_argument("--title")
     plot.set_defaults(run=_cmd_plot)
+
+    model = sub.add_parser(
+        "model",
+        help="a printable one-piece model in millimetres (STL, or 3MF with colour parts)",
+        description="The isosurface as one watertight solid, its longest side --size mm, phases "
+        "joined by a rod along z with a nucleus bead (and spokes to off-axis lobes). A .3mf "
+        "(or --split) carries each phase and the support as separate colour parts. "
+        "Printability is checked before writing. Read docs/printing.md for the safety notes.",
+        epilog=SPEC_HELP,
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    _add_orbital_options(model)
+    model.add_argument("-o", "--output", required=True, metavar="FILE", help=".stl or .3mf")
+    model.add_argument(
+        "--size",
+        type=_finite("size"),
+        required=True,
+        metavar="MM",
+        help="longest side of the model in millimetres",
+    )
+    model.add_argument(
+        "--rod",
+        type=_finite("rod"),
+        metavar="MM",
+        help="rod and spoke diameter (default 4%% of --size)",
+    )
+    model.add_argument(
+        "--min-feature",
+        type=_finite("min-feature"),
+        default=1.2,
+        metavar="MM",
+        help="thinnest printable feature (default 1.2 mm, common FDM practice)",
+    )
+    model.add_argument("--stand", action="store_true", help="add a round base plate")
+    model.add_argument(
+        "--cut", choices=["half", "quarter"], help="cut away x > 0 (half) or x > 0, y > 0 (quarter)"
+    )
+    model.add_argument("--split", action="store_true", help="one STL per colour part")
+    model.add_argument("--grid", type=_positive_int("grid"), default=DEFAULTS.grid)
+    model.add_argument("--colors", metavar="POS,NEG", help="phase colours as hex")
+    model.add_argument("--report", metavar="FILE.json", help="write the model facts as JSON")
+    model.set_defaults(run=_cmd_model)
     return parser
 
 
