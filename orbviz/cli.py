@@ -299,6 +299,62 @@ def _cmd_model(args: argparse.Namespace) -> int:
     return 0
 
 
+def _run_batch(items, out: str, args: argparse.Namespace, title: str) -> int:
+    from orbviz.batch import run_scene
+
+    manifest = run_scene(
+        items, out, jobs=args.jobs, force=args.force, progress=not args.no_progress, title=title
+    )
+    states = [e["status"] for e in manifest["items"]]
+    failed = [e for e in manifest["items"] if e["status"] == "failed"]
+    for entry in failed:
+        print(f"failed: {entry['name']}: {entry['error']}", file=sys.stderr)
+    print(
+        f"{states.count('done')} done, {states.count('skipped')} skipped, {len(failed)} failed;"
+        f" see {out}/index.html and {out}/manifest.json"
+    )
+    return 1 if failed else 0
+
+
+def _batch_folder(path: str) -> str:
+    from pathlib import Path
+
+    folder = Path(path)
+    if folder.exists() and not folder.is_dir():
+        raise ParameterError(f"output {path!r} exists and is not a folder")
+    parent = folder.resolve().parent
+    if not parent.is_dir():
+        raise ParameterError(f"cannot create {path!r}: folder {str(parent)!r} does not exist")
+    if not os.access(parent if not folder.exists() else folder, os.W_OK):
+        raise ParameterError(f"cannot write into {path!r}: not writable")
+    return path
+
+
+def _cmd_batch(args: argparse.Namespace) -> int:
+    import tomllib
+    from pathlib import Path
+
+    from orbviz.scene import load_scene
+
+    out = _batch_folder(args.output)
+    items = load_scene(args.scene)
+    title = tomllib.loads(Path(args.scene).read_text()).get("title", Path(args.scene).stem)
+    return _run_batch(items, out, args, str(title))
+
+
+def _cmd_demo(args: argparse.Namespace) -> int:
+    import tomllib
+    from importlib.resources import files
+
+    from orbviz.scene import parse_scene
+
+    out = _batch_folder(args.output)
+    text = files("orbviz").joinpath("data/demo.toml").read_text()
+    items = parse_scene(text, source="demo.toml")
+    print(f"orbviz demo: {len(items)} items into {out}/ (figures, meshes and a printable model)")
+    return _run_batch(items, out, args, tomllib.loads(text)["title"])
+
+
 def _build_parser() -> _Parser:
     parser = _Parser(
         prog="orbviz",
@@ -481,6 +537,39 @@ def _build_parser() -> _Parser:
     model.add_argument("--colors", metavar="POS,NEG", help="phase colours as hex")
     model.add_argument("--report", metavar="FILE.json", help="write the model facts as JSON")
     model.set_defaults(run=_cmd_model)
+
+    batch = sub.add_parser(
+        "batch",
+        help="run a scene file: figures, meshes and models of many orbitals in parallel",
+        description="Runs every item of a TOML scene file (see docs/scenes.md) in parallel "
+        "worker processes, keeps DIR/manifest.json up to date, skips unchanged items on a "
+        "rerun, and writes a contact sheet DIR/index.html. Exit status 1 if any item failed.",
+    )
+    batch.add_argument("scene", help="scene file (.toml)")
+    batch.add_argument("-o", "--output", required=True, metavar="DIR", help="output folder")
+    batch.add_argument(
+        "--jobs", type=_positive_int("jobs"), help="worker processes (default: one per core)"
+    )
+    batch.add_argument("--force", action="store_true", help="redo unchanged items too")
+    batch.add_argument("--no-progress", action="store_true", help="no progress bar")
+    batch.set_defaults(run=_cmd_batch)
+
+    demo = sub.add_parser(
+        "demo",
+        help="make a demo set: the orbitals of n = 1-3, a complex state, a mixture, a model",
+        description="Runs the scene embedded in orbviz (orbviz/data/demo.toml) into DIR.",
+    )
+    demo.add_argument(
+        "-o",
+        "--output",
+        default="orbviz-demo",
+        metavar="DIR",
+        help="output folder (default ./orbviz-demo)",
+    )
+    demo.add_argument("--jobs", type=_positive_int("jobs"))
+    demo.add_argument("--force", action="store_true")
+    demo.add_argument("--no-progress", action="store_true")
+    demo.set_defaults(run=_cmd_demo)
     return parser
 
 

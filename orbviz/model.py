@@ -290,11 +290,23 @@ def _bbox(solid):
     return box[:3], box[3:]
 
 
+def _cut_box(cut: str):
+    """Make a box covering the removed region: x > 0 (half) or x > 0, y > 0 (quarter)."""
+    import manifold3d
+
+    big = 1e4
+    box = manifold3d.Manifold.cube((big, big if cut == "quarter" else 2 * big, 2 * big))
+    return box.translate((0.0, 0.0 if cut == "quarter" else -big, -big))
+
+
 def _assemble(mesh: OrbitalMesh, scale: float, rod_mm: float, stand: bool, cut, size: float):
     import manifold3d
 
     radius = 0.5 * rod_mm
     bodies = {b.name: _manifold(b.vertices * scale, b.faces) for b in mesh.bodies}
+    box = _cut_box(cut) if cut is not None else None
+    if box is not None:  # cut first, so that the support joins the pieces that remain
+        bodies = {k: v - box for k, v in bodies.items()}
     pieces = [p for body in bodies.values() for p in body.decompose()]
     support = _support(pieces, radius)
     if stand:
@@ -306,12 +318,8 @@ def _assemble(mesh: OrbitalMesh, scale: float, rod_mm: float, stand: bool, cut, 
         ).translate((0.0, 0.0, plate_z - thickness))
         post = _cylinder(np.array([0.0, 0.0, plate_z - 0.5 * thickness]), np.zeros(3), radius)
         support = support + plate + post
-    if cut is not None:
-        big = 1e4
-        box = manifold3d.Manifold.cube((big, big if cut == "quarter" else 2 * big, 2 * big))
-        box = box.translate((0.0, 0.0 if cut == "quarter" else -big, -big))
+    if box is not None:
         support = support - box
-        bodies = {k: v - box for k, v in bodies.items()}
     solid = _union([*bodies.values(), support])
     parts = {"support": support}
     for name, body in bodies.items():

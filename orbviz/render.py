@@ -354,6 +354,7 @@ def figure(
     fraction: float = DEFAULTS.fraction,
     grid: int = DEFAULTS.grid,
     options: FigureOptions | None = None,
+    mesh: OrbitalMesh | None = None,
 ) -> Figure:
     """Compose an off-screen 3D figure of an orbital's isosurface.
 
@@ -367,6 +368,8 @@ def figure(
         Samples per axis of the mesh.
     options : FigureOptions, optional
         Looks, overlays and framing.
+    mesh : OrbitalMesh, optional
+        Bodies already built with the same fraction, grid, colours and extent (saves the work).
 
     Returns
     -------
@@ -378,9 +381,10 @@ def figure(
     import pyvista
 
     opts = (options or FigureOptions()).checked()
-    mesh = build_mesh(
-        orbital, fraction=fraction, grid=grid, colors=opts.colors, half_width=opts.extent
-    )
+    if mesh is None:
+        mesh = build_mesh(
+            orbital, fraction=fraction, grid=grid, colors=opts.colors, half_width=opts.extent
+        )
     width, height = (int(round(v * opts.scale)) for v in opts.size)
     plotter = pyvista.Plotter(off_screen=True, window_size=(width, height), lighting="none")
     fig = Figure(plotter, mesh, opts)

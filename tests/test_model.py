@@ -131,3 +131,13 @@ def test_model_cli_refuses_and_writes_nothing(tmp_path, capsys):
     assert not out.exists()
     status = main(["model", "2pz", "--size", "40", "--split", "-o", str(tmp_path / "x.3mf")])
     assert status == 2 and "--split" in capsys.readouterr().err
+
+
+@pytest.mark.parametrize(
+    ("spec", "cut"), [("3dz2", "quarter"), ("3dz2", "half"), ("4fxyz", "half"), ("3dxy", "quarter")]
+)
+def test_cut_off_axis_pieces_stay_joined(spec, cut):
+    # spokes are placed after the cut, so no half-ring or half-lobe is left floating
+    model = build_model(Orbital.from_spec(spec), size=50.0, grid=64, cut=cut)
+    facts = model.facts()
+    assert facts.watertight and facts.solids == 1

@@ -1,0 +1,258 @@
+"""Scene files and batch runs: validation, manifest, reruns, failures, contact sheet, demo."""
+
+from __future__ import annotations
+
+import concurrent.futures as cf
+import dataclasses
+import json
+import os
+import shutil
+import subprocess
+from pathlib import Path
+
+import pytest
+
+from orbviz.batch import run_scene
+from orbviz.cli import main
+from orbviz.scene import Item, SceneError, load_scene, parse_scene
+
+GALLERY = Path(__file__).resolve().parents[1] / "gallery_scenes"
+
+
+def _small(items: list[Item]) -> list[Item]:
+    """The same items at a small grid and image size, so the tests run quickly."""
+    out = []
+    for item in items:
+        s = json.loads(json.dumps(item.settings))
+        s["grid"] = 32
+        s["render"] = {**s["render"], "size": "160x120", "scale": 1.0}
+        if "model" in s and "size" in s["model"]:
+            s["model"]["size"] = 60.0
+        out.append(dataclasses.replace(item, settings=s))
+    return out
+
+
+SCENE = """
+title = "test set"
+[defaults]
+grid = 32
+outputs = ["png", "stl"]
+render = { size = "160x120" }
+
+[[orbital]]
+spec = "2pz"
+
+[[shells]]
+n = 1
+
+[[orbital]]
+spec = "3dxy"
+name = "dxy-figure"
+outputs = ["png", "ply"]
+"""
+
+
+def test_parse_defaults_overrides_and_expansion():
+    items = parse_scene(SCENE, "test.toml")
+    assert [i.name for i in items] == ["2pz", "1s", "dxy-figure"]  # file order kept
+    assert items[0].settings["outputs"] == ["png", "stl"]
+    assert items[2].settings["outputs"] == ["png", "ply"]
+    assert all(i.settings["grid"] == 32 for i in items)
+
+
+def test_shells_expand_to_every_real_orbital():
+    # n^2 real orbitals per shell (l = 0..n-1, 2l+1 each): 1 + 4 + 9 + 16 + 25 = 55
+    items = parse_scene("[[shells]]\nn = [1, 2, 3, 4, 5]\n", "s.toml")
+    assert len(items) == 55
+    assert len({i.name for i in items}) == 55
+    assert "5,4,-4" in {i.spec for i in items}  # no label beyond f: n,l,m as a real combination
+    assert all(i.settings["real"] is False for i in items)
+
+
+@pytest.mark.parametrize(
+    ("text", "fragment"),
+    [
+        (
+            "[[orbital]]\nspec = '2pz'\nfracton = 0.5\n",
+            "t.toml: orbital 1 ('2pz'): unknown key 'fracton'",
+        ),
+        ("[[orbital]]\nspec = '2pq'\n", "t.toml: orbital 1 ('2pq'): key 'spec'"),
+        ("[[orbital]]\nspec = '2pz'\nfraction = 1.5\n", "key 'fraction'"),
+        ("[[orbital]]\nspec = '2pz'\ngrid = 'fine'\n", "key 'grid' must be int"),
+        ("[[orbital]]\nspec = '2pz'\noutputs = ['gif']\n", "key 'outputs'"),
+        ("[[orbital]]\nspec = '2pz'\nrender = { colour = 'red' }\n", "unknown key 'render.colour'"),
+        ("[[orbital]]\nspec = '2pz'\nname = '../escape'\n", "key 'name' '../escape'"),
+        ("[[orbital]]\nspec = '2pz'\nname = '/etc/x'\n", "key 'name'"),
+        ("[[orbital]]\nspec = '2pz'\n[[orbital]]\nspec = '2pz'\n", "duplicate item name '2pz'"),
+        ("[[shells]]\nn = 0\n", "t.toml: shells 1: key 'n'"),
+        ("[defaults]\nZ = -1\n[[orbital]]\nspec = '1s'\n", "t.toml: [defaults]: key 'Z'"),
+        ("[[orbital]]\nname = 'x'\n", "missing key 'spec'"),
+        ("[scene]\nx = 1\n", "unknown table 'scene'"),
+        ("[[orbital]\nspec = '1s'\n", "not valid TOML"),
+        ("title = 'empty'\n", "no items"),
+    ],
+)
+def test_errors_name_file_item_and_key(text, fragment):
+    with pytest.raises(SceneError) as info:
+        parse_scene(text, "t.toml")
+    assert fragment in str(info.value)
+
+
+def test_batch_cli_bad_scene_is_one_line(tmp_path, capsys):
+    scene = tmp_path / "bad.toml"
+    scene.write_text("[[orbital]]\nspec = '2pz'\nfracton = 0.5\n")
+    status = main(["batch", str(scene), "-o", str(tmp_path / "out")])
+    err = capsys.readouterr().err
+    assert status == 2 and err.count("\n") == 1 and "bad.toml: orbital 1" in err
+    assert not (tmp_path / "out").exists()
+
+
+def test_run_manifest_rerun_and_force(tmp_path):
+    items = parse_scene(SCENE, "test.toml")
+    first = run_scene(items, tmp_path, jobs=2, progress=False)
+    entries = {e["name"]: e for e in first["items"]}
+    assert [e["status"] for e in first["items"]] == ["done"] * 3
+    assert set(entries["2pz"]["files"]) == {"2pz.stl", "2pz.png"}
+    for entry in first["items"]:
+        assert all((tmp_path / f).exists() for f in entry["files"])
+        assert entry["isovalue"] > 0 and entry["faces"] > 0 and entry["watertight"]
+    on_disk = json.loads((tmp_path / "manifest.json").read_text())
+    assert on_disk["items"] == first["items"]
+    # an unchanged rerun skips everything; a changed item reruns alone; --force redoes all
+    again = run_scene(items, tmp_path, jobs=2, progress=False)
+    assert [e["status"] for e in again["items"]] == ["skipped"] * 3
+    changed = [dataclasses.replace(items[0], settings={**items[0].settings, "fraction": 0.8})]
+    third = run_scene(changed + items[1:], tmp_path, jobs=2, progress=False)
+    assert [e["status"] for e in third["items"]] == ["done", "skipped", "skipped"]
+    (tmp_path / "1s.png").unlink()  # a missing file makes its item run again
+    fourth = run_scene(changed + items[1:], tmp_path, jobs=2, progress=False)
+    assert [e["status"] for e in fourth["items"]] == ["skipped", "done", "skipped"]
+    forced = run_scene(items, tmp_path, jobs=2, progress=False, force=True)
+    assert [e["status"] for e in forced["items"]] == ["done"] * 3
+
+
+def test_one_failure_does_not_stop_the_others(tmp_path, capsys):
+    scene = tmp_path / "s.toml"
+    # the second item's surface is beyond the mesher's radial-node limit: it fails alone
+    scene.write_text(
+        "[defaults]\ngrid = 32\noutputs = ['stl']\n"
+        "[[orbital]]\nspec = '2pz'\n[[orbital]]\nspec = '20s'\n[[orbital]]\nspec = '1s'\n"
+    )
+    status = main(["batch", str(scene), "-o", str(tmp_path / "out"), "--no-progress"])
+    assert status == 1
+    manifest = json.loads((tmp_path / "out" / "manifest.json").read_text())
+    states = {e["name"]: e["status"] for e in manifest["items"]}
+    assert states == {"2pz": "done", "20s": "failed", "1s": "done"}
+    failed = next(e for e in manifest["items"] if e["status"] == "failed")
+    assert "radial nodes" in failed["error"]
+    assert "failed: 20s" in capsys.readouterr().err
+
+
+def test_custom_executor_is_used(tmp_path):
+    # any concurrent.futures.Executor works (a Dask Client.get_executor() fits the same slot)
+    class Counting(cf.ProcessPoolExecutor):
+        submitted = 0
+
+        def submit(self, fn, /, *args, **kwargs):
+            Counting.submitted += 1
+            return super().submit(fn, *args, **kwargs)
+
+    import multiprocessing
+
+    items = parse_scene(SCENE, "test.toml")[:2]
+    # spawned workers: a forked pool, made after VTK and numexpr have started threads, can hang
+    with Counting(max_workers=2, mp_context=multiprocessing.get_context("spawn")) as pool:
+        manifest = run_scene(items, tmp_path, executor=pool, progress=False)
+    assert Counting.submitted == 2 and all(e["status"] == "done" for e in manifest["items"])
+
+
+def _chromium():
+    exe = shutil.which("chromium") or shutil.which("chromium-browser")
+    if exe is None:
+        if os.environ.get("CI"):
+            pytest.fail("chromium is not installed: .ci/run must install it")
+        pytest.skip("chromium not installed (apt-get install chromium)")
+    return exe
+
+
+CHROMIUM_FLAGS = [
+    "--headless",
+    "--no-sandbox",
+    "--disable-gpu",
+    "--disable-quic",
+    "--no-first-run",
+    "--disable-background-networking",
+    "--disable-component-update",
+    "--disable-sync",
+]
+
+
+def test_contact_sheet_in_a_real_browser(tmp_path):
+    exe = _chromium()
+    out = tmp_path / "set"
+    manifest = run_scene(parse_scene(SCENE, "test.toml"), out, jobs=2, progress=False)
+    page = (out / "index.html").as_uri()
+    dom = subprocess.run(
+        [
+            exe,
+            *CHROMIUM_FLAGS,
+            f"--user-data-dir={tmp_path / 'u1'}",
+            "--virtual-time-budget=8000",
+            "--dump-dom",
+            page,
+        ],
+        capture_output=True,
+        timeout=120,
+        check=True,
+    ).stdout.decode("utf-8", errors="replace")  # the page has psi in it: not the locale's codec
+    count = len(manifest["items"])
+    assert f'data-thumbnails="{count}/{count}"' in dom  # every thumbnail loaded
+    for entry in manifest["items"]:
+        assert entry["name"] in dom
+        for f in entry["files"]:
+            assert f'href="{f}"' in dom
+    shot = tmp_path / "sheet.png"
+    subprocess.run(
+        [
+            exe,
+            *CHROMIUM_FLAGS,
+            f"--user-data-dir={tmp_path / 'u2'}",
+            "--window-size=1200,900",
+            "--virtual-time-budget=8000",
+            f"--screenshot={shot}",
+            page,
+        ],
+        capture_output=True,
+        timeout=120,
+        check=True,
+    )
+    import numpy as np
+    from PIL import Image
+
+    with Image.open(shot) as image:
+        img = np.asarray(image.convert("RGB")).astype(int)
+    # the grid shows: the blue and vermillion phases appear in the screenshot
+    blue = np.all(np.abs(img - [0, 114, 178]) < 40, axis=2).mean()
+    orange = np.all(np.abs(img - [213, 94, 0]) < 40, axis=2).mean()
+    assert blue > 0.005 and orange > 0.005
+
+
+@pytest.mark.parametrize("scene", sorted(GALLERY.glob("*.toml")), ids=lambda p: p.stem)
+def test_gallery_scenes_parse_and_run(scene, tmp_path):
+    items = load_scene(scene)
+    assert items
+    manifest = run_scene(_small(items), tmp_path, jobs=2, progress=False)
+    assert all(e["status"] == "done" for e in manifest["items"]), [
+        e.get("error") for e in manifest["items"]
+    ]
+
+
+def test_demo_runs(tmp_path, capsys):
+    status = main(["demo", "-o", str(tmp_path / "demo"), "--no-progress"])
+    assert status == 0
+    manifest = json.loads((tmp_path / "demo" / "manifest.json").read_text())
+    names = {e["name"] for e in manifest["items"]}
+    # the real orbitals of n = 1..3 (1 + 4 + 9), a complex 3d state, a mixture, a model
+    assert len(names) == 17 and {"3dz2", "3d-m1-complex", "sp3-like", "2pz-print"} <= names
+    assert (tmp_path / "demo" / "2pz-print-model.3mf").exists()
+    assert (tmp_path / "demo" / "index.html").exists()
