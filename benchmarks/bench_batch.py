@@ -14,6 +14,8 @@ import tempfile
 import time
 from pathlib import Path
 
+from _common import save
+
 SCENE = """
 title = "benchmark: 16 figures"
 [defaults]
@@ -51,10 +53,7 @@ def main() -> None:
         "rerun_over_first": rerun / first,
         "rerun_target": "< 0.10",
     }
-    print(json.dumps(result, indent=2))
-    out_dir = Path(__file__).with_name("results")
-    out_dir.mkdir(exist_ok=True)
-    (out_dir / "batch.json").write_text(json.dumps(result, indent=2) + "\n")
+    save("batch", result)
 
 
 if __name__ == "__main__":

@@ -25,6 +25,8 @@ import tempfile
 import time
 from pathlib import Path
 
+from _common import save
+
 SPEC, N = "3dz2", 256
 
 BASELINE = r"""
@@ -136,10 +138,7 @@ def main() -> None:
         "scaling": scaling,
         "children_peak_rss_mb": resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss / 1024,
     }
-    print(json.dumps(result, indent=2))
-    out = Path(__file__).with_name("results")
-    out.mkdir(exist_ok=True)
-    (out / "mesh.json").write_text(json.dumps(result, indent=2) + "\n")
+    save("mesh", result)
 
 
 if __name__ == "__main__":

@@ -6,24 +6,11 @@ measured in the same run. Run: python benchmarks/bench_model.py
 
 from __future__ import annotations
 
-import json
-import statistics
-import subprocess
 import sys
 import tempfile
-import time
 from pathlib import Path
 
-REPEATS = 5
-
-
-def wall(argv: list[str]) -> float:
-    times = []
-    for _ in range(REPEATS):
-        start = time.perf_counter()
-        subprocess.run(argv, check=True, capture_output=True)
-        times.append(time.perf_counter() - start)
-    return statistics.median(times)
+from _common import save, wall
 
 
 def main() -> None:
@@ -39,10 +26,7 @@ def main() -> None:
         "mesh_2pz_s": mesh,
         "model_over_mesh": model / mesh,
     }
-    print(json.dumps(result, indent=2))
-    out = Path(__file__).with_name("results")
-    out.mkdir(exist_ok=True)
-    (out / "model.json").write_text(json.dumps(result, indent=2) + "\n")
+    save("model", result)
 
 
 if __name__ == "__main__":

@@ -7,24 +7,11 @@ Run: python benchmarks/bench_render.py
 
 from __future__ import annotations
 
-import json
-import statistics
-import subprocess
 import sys
 import tempfile
-import time
 from pathlib import Path
 
-REPEATS = 5
-
-
-def wall(argv: list[str]) -> float:
-    times = []
-    for _ in range(REPEATS):
-        start = time.perf_counter()
-        subprocess.run(argv, check=True, capture_output=True)
-        times.append(time.perf_counter() - start)
-    return statistics.median(times)
+from _common import save, wall
 
 
 def main() -> None:
@@ -43,10 +30,7 @@ def main() -> None:
         "import_pyvista_plotting_s": pyvista,
         "render_over_mesh": render / mesh,
     }
-    print(json.dumps(result, indent=2))
-    out = Path(__file__).with_name("results")
-    out.mkdir(exist_ok=True)
-    (out / "render.json").write_text(json.dumps(result, indent=2) + "\n")
+    save("render", result)
 
 
 if __name__ == "__main__":

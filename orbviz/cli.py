@@ -355,6 +355,25 @@ def _cmd_demo(args: argparse.Namespace) -> int:
     return _run_batch(items, out, args, tomllib.loads(text)["title"])
 
 
+def _subcommand(sub, name: str, summary: str, description: str, *, spec: bool = True) -> _Parser:
+    """Add a sub-command; those that take an orbital show the spec grammar in their help."""
+    return sub.add_parser(
+        name,
+        help=summary,
+        description=description,
+        epilog=SPEC_HELP if spec else None,
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+
+
+def _add_colors(parser: argparse.ArgumentParser) -> None:
+    parser.add_argument(
+        "--colors",
+        metavar="POS,NEG",
+        help="phase colours as hex, e.g. '#0072B2,#D55E00' (the default)",
+    )
+
+
 def _build_parser() -> _Parser:
     parser = _Parser(
         prog="orbviz",
@@ -364,25 +383,23 @@ def _build_parser() -> _Parser:
     )
     parser.add_argument("--version", action="version", version=f"orbviz {__version__}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
-    info = sub.add_parser(
+    info = _subcommand(
+        sub,
         "info",
-        help="energy, nodes, radii and the enclosing isovalue of an orbital",
-        description="Energy, nodes, radii and the isovalue enclosing --fraction of the "
+        "energy, nodes, radii and the enclosing isovalue of an orbital",
+        "Energy, nodes, radii and the isovalue enclosing --fraction of the "
         "probability. Atomic units: bohr, hartree (eV from CODATA).",
-        epilog=SPEC_HELP,
-        formatter_class=argparse.RawDescriptionHelpFormatter,
     )
     _add_orbital_options(info)
     info.add_argument("--json", action="store_true", help="print one JSON object")
     info.set_defaults(run=_cmd_info)
-    mesh = sub.add_parser(
+    mesh = _subcommand(
+        sub,
         "mesh",
-        help="closed phase-coloured isosurface meshes (STL, OBJ, glTF/GLB, PLY, 3MF)",
-        description="Closed isosurface bodies enclosing --fraction of the probability, one per "
+        "closed phase-coloured isosurface meshes (STL, OBJ, glTF/GLB, PLY, 3MF)",
+        "Closed isosurface bodies enclosing --fraction of the probability, one per "
         "phase, written in the format the output suffix names. Coordinates in bohr unless "
         "--units says otherwise; nucleus at the origin, z the quantisation axis.",
-        epilog=SPEC_HELP,
-        formatter_class=argparse.RawDescriptionHelpFormatter,
     )
     _add_orbital_options(mesh)
     mesh.add_argument(
@@ -416,21 +433,16 @@ def _build_parser() -> _Parser:
         choices=["bohr", "angstrom", "nm", "pm"],
         help="length unit of the coordinates (default bohr)",
     )
-    mesh.add_argument(
-        "--colors",
-        metavar="POS,NEG",
-        help="phase colours as hex, e.g. '#0072B2,#D55E00' (the default)",
-    )
+    _add_colors(mesh)
     mesh.add_argument("--report", metavar="FILE.json", help="write mesh statistics as JSON")
     mesh.set_defaults(run=_cmd_mesh)
 
-    render = sub.add_parser(
+    render = _subcommand(
+        sub,
         "render",
-        help="a publication figure of the isosurface, rendered off-screen to PNG",
-        description="An orthographic, phase-coloured figure of the isosurface enclosing "
+        "a publication figure of the isosurface, rendered off-screen to PNG",
+        "An orthographic, phase-coloured figure of the isosurface enclosing "
         "--fraction, rendered without a display. Complex states get a phase wheel.",
-        epilog=SPEC_HELP,
-        formatter_class=argparse.RawDescriptionHelpFormatter,
     )
     _add_orbital_options(render)
     render.add_argument("-o", "--output", required=True, metavar="FILE.png")
@@ -475,16 +487,15 @@ def _build_parser() -> _Parser:
         metavar="L",
         help="fix the box and the view to half-width L bohr (comparable sets)",
     )
-    render.add_argument("--colors", metavar="POS,NEG", help="phase colours as hex")
+    _add_colors(render)
     render.set_defaults(run=_cmd_render)
 
-    plot = sub.add_parser(
+    plot = _subcommand(
+        sub,
         "plot",
-        help="2D companions: a density slice or the radial distribution (PNG, SVG, PDF)",
-        description="A density slice through the nucleus with the isovalue and nodes, or the "
+        "2D companions: a density slice or the radial distribution (PNG, SVG, PDF)",
+        "A density slice through the nucleus with the isovalue and nodes, or the "
         "radial distribution with nodes, <r> and the most probable radius.",
-        epilog=SPEC_HELP,
-        formatter_class=argparse.RawDescriptionHelpFormatter,
     )
     _add_orbital_options(plot)
     plot.add_argument("--kind", required=True, choices=["slice", "radial"])
@@ -496,15 +507,14 @@ def _build_parser() -> _Parser:
     plot.add_argument("--title")
     plot.set_defaults(run=_cmd_plot)
 
-    model = sub.add_parser(
+    model = _subcommand(
+        sub,
         "model",
-        help="a printable one-piece model in millimetres (STL, or 3MF with colour parts)",
-        description="The isosurface as one watertight solid, its longest side --size mm, phases "
+        "a printable one-piece model in millimetres (STL, or 3MF with colour parts)",
+        "The isosurface as one watertight solid, its longest side --size mm, phases "
         "joined by a rod along z with a nucleus bead (and spokes to off-axis lobes). A .3mf "
         "(or --split) carries each phase and the support as separate colour parts. "
         "Printability is checked before writing. Read docs/printing.md for the safety notes.",
-        epilog=SPEC_HELP,
-        formatter_class=argparse.RawDescriptionHelpFormatter,
     )
     _add_orbital_options(model)
     model.add_argument("-o", "--output", required=True, metavar="FILE", help=".stl or .3mf")
@@ -534,7 +544,7 @@ def _build_parser() -> _Parser:
     )
     model.add_argument("--split", action="store_true", help="one STL per colour part")
     model.add_argument("--grid", type=_positive_int("grid"), default=DEFAULTS.grid)
-    model.add_argument("--colors", metavar="POS,NEG", help="phase colours as hex")
+    _add_colors(model)
     model.add_argument("--report", metavar="FILE.json", help="write the model facts as JSON")
     model.set_defaults(run=_cmd_model)
 
