@@ -1,0 +1,61 @@
+"""Benchmark: one numerical radial solution to 1e-8 relative energy (issue 7 target: < 50 ms).
+
+Hydrogen states, whose exact energies are known, are solved in-process after a warm-up (scipy's
+imports). The time of one shift-invert eigensolve on the coarse grid is measured in the same
+run, for comparison.
+Run: python benchmarks/bench_radial.py
+"""
+
+from __future__ import annotations
+
+import math
+import statistics
+import time
+
+import numpy as np
+from _common import save
+
+from orbviz.numerical import _state, solve_radial
+from orbviz.potentials import Coulomb, Yukawa
+
+
+def main() -> None:
+    solve_radial(Coulomb(1.0), 2, 1)  # warm-up: imports
+    rows = {}
+    for n, l in [(1, 0), (2, 1), (3, 0), (5, 2)]:
+        times, errors = [], []
+        for _ in range(15):
+            start = time.perf_counter()
+            s = solve_radial(Coulomb(1.0), n, l)
+            times.append(time.perf_counter() - start)
+            errors.append(abs(s.energy / (-0.5 / n**2) - 1))
+        rows[f"{n},{l}"] = {
+            "median_ms": 1e3 * statistics.median(times),
+            "relative_energy_error": max(errors),
+        }
+    x = np.linspace(math.log(1e-10), math.log(160.0), 4000)
+    eig = []
+    for _ in range(15):
+        start = time.perf_counter()
+        _state(Coulomb(1.0), 1, 0, x, -0.13)
+        eig.append(time.perf_counter() - start)
+    yukawa = []
+    for _ in range(15):
+        start = time.perf_counter()
+        solve_radial(Yukawa(1.0, 10.0), 1, 0)
+        yukawa.append(time.perf_counter() - start)
+    worst = max(r["median_ms"] for r in rows.values())
+    save(
+        "radial",
+        {
+            "hydrogen": rows,
+            "worst_median_ms": worst,
+            "worst_over_target_50ms": worst / 50.0,
+            "one_eigensolve_4000_points_ms": 1e3 * statistics.median(eig),
+            "yukawa_1s_median_ms": 1e3 * statistics.median(yukawa),
+        },
+    )
+
+
+if __name__ == "__main__":
+    main()
