@@ -23,6 +23,8 @@ orbital spec grammar (labels are case-insensitive, spaces are free):
                           m > 0 cosine type, m < 0 sine type)
   0.6*2s + 0.8*2pz        superposition; weights are real (0.5, 1e-3), imaginary (2j) or complex
   (1+1j)*2,1,1 - 3dxy     in parentheses, and are normalised for you
+  Na:3s  Fe:3d  C:2p      screened hydrogen-like orbital of an element (H to Xe), with the
+                          effective charge from Slater's rules
 Quote the spec in the shell; one that starts with '-' goes after '--'."""
 
 
@@ -50,7 +52,12 @@ def _finite(kind: str) -> Callable[[str], float]:
 
 def _add_orbital_options(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("spec", help="the orbital, e.g. 3dz2, 4,2,-1 or '0.6*2s+0.8*2pz'")
-    parser.add_argument("--Z", type=_finite("Z"), default=1.0, help="nuclear charge (default 1)")
+    parser.add_argument(
+        "--Z",
+        type=_finite("Z"),
+        default=None,
+        help="nuclear charge (default 1; an element prefix like Na: sets it)",
+    )
     parser.add_argument(
         "--real", action="store_true", help="read n,l,m states as real combinations"
     )
@@ -86,7 +93,7 @@ def _orbital(args: argparse.Namespace):
         electron_u = physical_constants["electron mass in u"][0]
         ratio = 1.0 / (1.0 + electron_u / args.nuclear_mass)
     elif args.reduced_mass:
-        if args.Z != 1.0:
+        if args.Z not in (None, 1.0):
             raise ParameterError(
                 f"--reduced-mass uses the proton mass, so it needs Z = 1 (got Z={args.Z:g}); "
                 "give --nuclear-mass U for another nucleus"

@@ -4,8 +4,9 @@ from __future__ import annotations
 
 import cmath
 import math
+import re
 from collections.abc import Iterable
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 import numpy.typing as npt
@@ -25,6 +26,9 @@ from orbviz.spec import Atom, parse_spec
 __all__ = ["Orbital", "proton_mass_ratio"]
 
 _SQRT_HALF = math.sqrt(0.5)
+_ELEMENT_PREFIX = re.compile(r"\s*([A-Za-z]{1,2})\s*:(.*)$", re.S)
+_BARE_SHELL = re.compile(r"(?<![\d,.])(\d+)([pdfPDF])(?![a-zA-Z0-9(])")
+_M0_LABEL = {"p": "z", "d": "z2", "f": "z3"}
 
 
 def proton_mass_ratio() -> float:
@@ -73,6 +77,8 @@ class Orbital:
         Norm of the weights as written, before normalisation.
     notes : tuple of str
         Remarks for the user (normalisation applied, global phase removed).
+    element : str or None
+        For a screened orbital (``Na:3s``), the element whose Slater charge is ``Z``.
 
     Notes
     -----
@@ -87,11 +93,12 @@ class Orbital:
     atoms: tuple[Atom, ...] = ()
     given_norm: float = 1.0
     notes: tuple[str, ...] = field(default=())
+    element: str | None = None
 
     # ----------------------------------------------------------------- construction
     @classmethod
     def from_spec(
-        cls, spec: str, /, *, Z: float = 1.0, real: bool = False, mass_ratio: float = 1.0
+        cls, spec: str, /, *, Z: float | None = None, real: bool = False, mass_ratio: float = 1.0
     ) -> Orbital:
         """Parse spec text (see :mod:`orbviz.spec`) into a normalised orbital.
 
@@ -99,17 +106,66 @@ class Orbital:
         ----------
         spec : str
             E.g. ``"3dz2"``, ``"4,2,-1"``, ``"0.5*2s + 0.866*2pz"``.
-        Z : float, default: 1.0
-            Nuclear charge, > 0.
+        Z : float, optional
+            Nuclear charge, > 0 (default 1). Not with an element prefix, which sets it.
         real : bool, default: False
             Read ``n,l,m`` states as real combinations rather than Lz eigenstates.
         mass_ratio : float, default: 1.0
             Reduced mass over electron mass; see :func:`proton_mass_ratio`.
         """
-        atoms = parse_spec(spec)
+        prefix = _ELEMENT_PREFIX.match(spec) if isinstance(spec, str) else None
+        shorthand = []
+        if prefix:  # with an element, a bare shell (C:2p, Fe:3d) means its m = 0 member
+            text = _BARE_SHELL.sub(
+                lambda m: (
+                    shorthand.append(m.group(0)) or m.group(0) + _M0_LABEL[m.group(2).lower()]
+                ),
+                prefix.group(2),
+            )
+            atoms = parse_spec(text)
+        else:
+            atoms = parse_spec(spec)
         if real:
             atoms = [Atom(a.n, a.l, a.m, "real", a.coefficient) for a in atoms]
-        return cls.from_atoms(atoms, Z=Z, mass_ratio=mass_ratio, spec=spec.strip())
+        if prefix is None:
+            return cls.from_atoms(
+                atoms, Z=1.0 if Z is None else Z, mass_ratio=mass_ratio, spec=spec.strip()
+            )
+        orbital = cls._screened(prefix.group(1), atoms, Z, mass_ratio, spec.strip())
+        if shorthand:
+            note = (
+                f"{', '.join(shorthand)} taken as the m = 0 real orbital; name a component "
+                "(e.g. 2px, 3dxy) for another"
+            )
+            orbital = replace(orbital, notes=(*orbital.notes, note))
+        return orbital
+
+    @classmethod
+    def _screened(cls, symbol: str, atoms, Z, mass_ratio: float, spec: str) -> Orbital:
+        """Build a hydrogen-like orbital with Slater's effective charge (orbviz.atoms)."""
+        from orbviz.atoms import SYMBOLS, configuration_text, element, slater_charge
+
+        if Z is not None:
+            raise SpecError(f"{spec!r}: the element prefix sets the charge; leave out Z")
+        nucleus = element(symbol)
+        name = SYMBOLS[nucleus - 1]
+        for a in atoms:
+            check_quantum_numbers(a.n, a.l, a.m)
+        charges = {(a.n, a.l): slater_charge(nucleus, a.n, a.l) for a in atoms}
+        if len(set(charges.values())) != 1:
+            listed = ", ".join(f"{n}{'spdf'[l]}: {c:.2f}" for (n, l), c in charges.items())
+            raise SpecError(
+                f"{spec!r} mixes electrons with different Slater charges ({listed}); "
+                "name states of one Slater group"
+            )
+        charge = next(iter(charges.values()))
+        orbital = cls.from_atoms(atoms, Z=charge, mass_ratio=mass_ratio, spec=spec)
+        note = (
+            f"screened hydrogen-like orbital of {name} (Z = {nucleus}, "
+            f"{configuration_text(nucleus)}): Slater's Z_eff = {charge:.2f}; its energy "
+            "-Z_eff^2/2n^2 is a rough estimate"
+        )
+        return replace(orbital, element=name, notes=(note, *orbital.notes))
 
     @classmethod
     def from_atoms(
@@ -179,7 +235,8 @@ class Orbital:
         state = self.eigenstate
         if state is None:
             return self.spec
-        return label_of(state.n, state.l, state.m, real=state.form == "real")
+        label = label_of(state.n, state.l, state.m, real=state.form == "real")
+        return f"{self.element}:{label}" if self.element else label
 
     @property
     def energy_hartree(self) -> float:

@@ -141,7 +141,7 @@ def _settings(table: dict, where: str, *, allow: set[str]) -> dict[str, Any]:
 
 def _merge(defaults: dict, own: dict) -> dict:
     merged = {
-        "Z": 1.0,
+        "Z": None,
         "real": False,
         "fraction": DEFAULTS.fraction,
         "grid": DEFAULTS.grid,
@@ -162,7 +162,7 @@ def _merge(defaults: dict, own: dict) -> dict:
 
 def _slug(spec: str, Z: float) -> str:
     stem = re.sub(r"[^A-Za-z0-9.-]+", "_", spec.replace("*", "x")).strip("._-") or "orbital"
-    if Z != 1.0:
+    if Z not in (None, 1.0):
         stem += f"-Z{Z:g}"
     return stem[:100]
 

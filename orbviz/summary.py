@@ -110,6 +110,7 @@ def summarise(orbital: Orbital, /, *, fraction: float = DEFAULTS.fraction) -> di
         "l": state.l if state else None,
         "m": state.m if state else None,
         "Z": orbital.Z,
+        "element": orbital.element,
         "form": form,
         "reduced_mass": orbital.mass_ratio != 1.0,
         "mass_ratio": orbital.mass_ratio,

@@ -1,0 +1,90 @@
+"""Configurations and Slater's-rules effective charges; screened orbitals through the CLI."""
+
+from __future__ import annotations
+
+import json
+
+import pytest
+
+from orbviz.atoms import SYMBOLS, configuration, configuration_text, element, slater_charge
+from orbviz.cli import main
+from orbviz.errors import SpecError
+from orbviz.orbital import Orbital
+
+# Slater's rules, Phys. Rev. 36, 57 (1930); these worked values appear in standard inorganic
+# chemistry textbooks (e.g. Housecroft & Sharpe, Inorganic Chemistry) -- from memory
+SLATER = [
+    ("He", 1, 0, 1.70),
+    ("C", 2, 1, 3.25),
+    ("N", 2, 1, 3.90),
+    ("O", 2, 1, 4.55),
+    ("F", 2, 1, 5.20),
+    ("Na", 3, 0, 2.20),
+    ("Cl", 3, 1, 6.10),
+    ("K", 4, 0, 2.20),
+    ("Fe", 3, 2, 6.25),
+    ("Fe", 4, 0, 3.75),
+    ("Cu", 4, 0, 3.70),
+    ("Zn", 4, 0, 4.35),
+    ("Zn", 3, 2, 8.85),
+]
+
+
+@pytest.mark.parametrize(("symbol", "n", "l", "expected"), SLATER)
+def test_slater_charges(symbol, n, l, expected):
+    assert slater_charge(element(symbol), n, l) == pytest.approx(expected, abs=1e-9)
+
+
+def test_every_configuration_holds_z_electrons_within_capacity():
+    for Z in range(1, len(SYMBOLS) + 1):
+        config = configuration(Z)
+        assert sum(config.values()) == Z
+        assert all(0 < k <= 2 * (2 * l + 1) for (_, l), k in config.items())
+
+
+# ground-state configurations with exceptions to aufbau (NIST Atomic Spectra Database, from
+# memory), and two regular ones
+@pytest.mark.parametrize(
+    ("symbol", "text"),
+    [
+        ("Cr", "1s2 2s2 2p6 3s2 3p6 3d5 4s1"),
+        ("Cu", "1s2 2s2 2p6 3s2 3p6 3d10 4s1"),
+        ("Pd", "1s2 2s2 2p6 3s2 3p6 3d10 4s2 4p6 4d10"),
+        ("Ag", "1s2 2s2 2p6 3s2 3p6 3d10 4s2 4p6 4d10 5s1"),
+        ("Fe", "1s2 2s2 2p6 3s2 3p6 3d6 4s2"),
+        ("Xe", "1s2 2s2 2p6 3s2 3p6 3d10 4s2 4p6 4d10 5s2 5p6"),
+    ],
+)
+def test_configurations(symbol, text):
+    assert configuration_text(element(symbol)) == text
+
+
+def test_screened_orbital_is_hydrogen_like_with_z_eff():
+    # <r> = [3n^2 - l(l+1)] / (2 Z_eff) with Slater's Z_eff = 2.20 for Na 3s
+    orbital = Orbital.from_spec("Na:3s")
+    assert orbital.Z == pytest.approx(2.20) and orbital.element == "Na"
+    assert orbital.label == "Na:3s"
+
+
+@pytest.mark.parametrize(
+    ("spec", "fragment"),
+    [
+        ("Na:3d", "no 3d electron"),
+        ("Xx:1s", "unknown element"),
+        ("Fe:3d+4s", "different Slater charges"),
+    ],
+)
+def test_screened_errors(spec, fragment):
+    with pytest.raises(SpecError, match=fragment):
+        Orbital.from_spec(spec)
+
+
+def test_cli_info_and_mesh_for_a_screened_orbital(capsys, tmp_path):
+    assert main(["info", "C:2p", "--json"]) == 0
+    info = json.loads(capsys.readouterr().out)
+    assert info["element"] == "C" and info["Z"] == pytest.approx(3.25)
+    assert info["label"] == "C:2pz"
+    assert info["mean_radius_bohr"] == pytest.approx((12 - 2) / (2 * 3.25), rel=1e-12)
+    assert main(["mesh", "Fe:3dxy", "--grid", "48", "-o", str(tmp_path / "fe.stl")]) == 0
+    status = main(["info", "Na:3s", "--Z", "2"])
+    assert status == 2 and "leave out Z" in capsys.readouterr().err
