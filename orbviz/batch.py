@@ -62,10 +62,10 @@ def run_item(item: Item, out_dir: str) -> dict[str, Any]:
     try:
         from orbviz.export import write_bodies
         from orbviz.mesh import build_mesh
-        from orbviz.orbital import Orbital
+        from orbviz.scene import orbital_of
 
         s = item.settings
-        orbital = Orbital.from_spec(item.spec, Z=s["Z"], real=s["real"])
+        orbital = orbital_of(item.spec, s)
         outputs = s["outputs"]
         files: list[Path] = []
         options = _figure_options(item)

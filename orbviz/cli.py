@@ -67,6 +67,12 @@ def _add_orbital_options(parser: argparse.ArgumentParser) -> None:
         default=DEFAULTS.fraction,
         help=f"probability the surface encloses, in (0, 1) (default {DEFAULTS.fraction})",
     )
+    parser.add_argument(
+        "--potential",
+        metavar="P",
+        help="solve the radial part numerically in: coulomb, yukawa:LENGTH (bohr), "
+        "harmonic:OMEGA (hartree), or table:FILE (columns r/bohr, V/hartree)",
+    )
     mass = parser.add_mutually_exclusive_group()
     mass.add_argument(
         "--reduced-mass",
@@ -99,6 +105,12 @@ def _orbital(args: argparse.Namespace):
                 "give --nuclear-mass U for another nucleus"
             )
         ratio = proton_mass_ratio()
+    potential = None
+    if getattr(args, "potential", None):
+        from orbviz.potentials import parse_potential
+
+        potential = parse_potential(args.potential, Z=1.0 if args.Z is None else args.Z)
+        return Orbital.from_spec(args.spec, real=args.real, mass_ratio=ratio, potential=potential)
     return Orbital.from_spec(args.spec, Z=args.Z, real=args.real, mass_ratio=ratio)
 
 

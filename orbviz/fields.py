@@ -17,7 +17,7 @@ from __future__ import annotations
 
 import math
 from collections import defaultdict
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 import numpy.typing as npt
@@ -129,11 +129,15 @@ class Field:
         numexpr text in x, y, z (bohr).
     orbital : Orbital
         The state it belongs to.
+    tables : dict
+        For numerically solved radial functions: variable name -> (r, R / r^l) on a fine
+        uniform grid, interpolated linearly; the grid is then evaluated slab by slab along z.
     """
 
     kind: str
     expression: str
     orbital: Orbital
+    tables: dict = field(default_factory=dict, compare=False, repr=False)
 
     @property
     def two_sided(self) -> bool:
@@ -151,8 +155,28 @@ class Field:
         """Evaluate at broadcastable coordinates (bohr); into ``out`` (e.g. float32) if given."""
         import numexpr
 
-        names = {"x": np.asarray(x), "y": np.asarray(y), "z": np.asarray(z)}
-        return numexpr.evaluate(self.expression, local_dict=names, out=out, casting="unsafe")
+        x, y, z = np.asarray(x), np.asarray(y), np.asarray(z)
+        if not self.tables:
+            names = {"x": x, "y": y, "z": z}
+            return numexpr.evaluate(self.expression, local_dict=names, out=out, casting="unsafe")
+        shape = np.broadcast_shapes(x.shape, y.shape, z.shape)
+        if out is None:
+            out = np.empty(shape)
+        if len(shape) == 3 and z.shape[:2] == (1, 1) and x.shape[2] == y.shape[2] == 1:
+            for k in range(shape[2]):  # one z slab at a time keeps the tables' work bounded
+                self._tabulated(x[:, :, 0], y[:, :, 0], z[:, :, k], out[:, :, k])
+            return out
+        self._tabulated(x, y, z, out)
+        return out
+
+    def _tabulated(self, x, y, z, out) -> None:
+        import numexpr
+
+        r = np.sqrt(x * x + y * y + z * z)
+        names = {"x": x, "y": y, "z": z}
+        for name, (grid, values) in self.tables.items():
+            names[name] = np.interp(r, grid, values)
+        numexpr.evaluate(self.expression, local_dict=names, out=out, casting="unsafe")
 
     def gradient(self, points: np.ndarray, step: float = 1e-4) -> np.ndarray:
         """Central-difference gradient at (V, 3) points, float64 (step in bohr)."""
@@ -170,7 +194,20 @@ def field_of(orbital: Orbital, /) -> Field:
     """Build the contoured field of an orbital (see the module docstring)."""
     Z = orbital.length_charge
     state = orbital.eigenstate
-    if any(n - l - 1 > _MAX_HORNER_DEGREE for n, l in orbital.shells):
+    tables: dict[str, tuple[np.ndarray, np.ndarray]] = {}
+
+    def radial(n: int, l: int) -> str:
+        if orbital.potential is None:
+            return _radial_expr(n, l, Z)
+        name = f"R{len(tables)}"
+        r = np.linspace(0.0, orbital.radial_extent(n, l, 1e-14), 40001)
+        values = orbital.radial(n, l, r)
+        values[1:] /= r[1:] ** l
+        values[0] = values[1] if l else values[0]
+        tables[name] = (r, values)
+        return name
+
+    if orbital.potential is None and any(n - l - 1 > _MAX_HORNER_DEGREE for n, l in orbital.shells):
         raise ParameterError(
             f"surfaces need n - l - 1 <= {_MAX_HORNER_DEGREE} radial nodes, got (n, l) in "
             f"{orbital.shells}"
@@ -179,21 +216,19 @@ def field_of(orbital: Orbital, /) -> Field:
         shells: dict[tuple[int, int], Poly] = {}
         for (n, l, m), c in orbital.basis:
             shells[(n, l)] = _add(shells.get((n, l), {}), _real_solid_poly(l, m), c.real)
-        text = " + ".join(
-            f"{_radial_expr(n, l, Z)}*{_poly_expr(p)}" for (n, l), p in shells.items()
-        )
-        return Field("signed", text, orbital)
+        text = " + ".join(f"{radial(n, l)}*{_poly_expr(p)}" for (n, l), p in shells.items())
+        return Field("signed", text, orbital, tables)
     if state is not None and state.form == "complex" and len(orbital.shells) == 1:
         n, l, m = state.n, state.l, state.m
         theta = _poly_expr(_theta_poly(l, abs(m)))
         rho = f"(x**2 + y**2)**{abs(m) / 2!r}"
-        return Field("envelope", f"{_radial_expr(n, l, Z)}*{theta}*{rho}", orbital)
+        return Field("envelope", f"{radial(n, l)}*{theta}*{rho}", orbital, tables)
     real_part: dict[tuple[int, int], Poly] = {}
     imag_part: dict[tuple[int, int], Poly] = {}
     for (n, l, m), c in orbital.basis:
         poly = _real_solid_poly(l, m)
         real_part[(n, l)] = _add(real_part.get((n, l), {}), poly, c.real)
         imag_part[(n, l)] = _add(imag_part.get((n, l), {}), poly, c.imag)
-    re = " + ".join(f"{_radial_expr(n, l, Z)}*{_poly_expr(p)}" for (n, l), p in real_part.items())
-    im = " + ".join(f"{_radial_expr(n, l, Z)}*{_poly_expr(p)}" for (n, l), p in imag_part.items())
-    return Field("modulus", f"sqrt(({re})**2 + ({im})**2)", orbital)
+    re = " + ".join(f"{radial(n, l)}*{_poly_expr(p)}" for (n, l), p in real_part.items())
+    im = " + ".join(f"{radial(n, l)}*{_poly_expr(p)}" for (n, l), p in imag_part.items())
+    return Field("modulus", f"sqrt(({re})**2 + ({im})**2)", orbital, tables)

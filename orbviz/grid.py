@@ -19,7 +19,6 @@ from orbviz.errors import ParameterError
 from orbviz.fields import Field
 from orbviz.isovalue import Isovalue
 from orbviz.orbital import Orbital
-from orbviz.radial import radial_extent
 
 __all__ = ["Grid", "box_half_width", "check_grid_points", "estimate_bytes", "sample"]
 
@@ -84,7 +83,7 @@ def check_grid_points(points: object) -> int:
 
 def radial_quantile(orbital: Orbital, q: float) -> float:
     """Radius (bohr) inside which the fraction ``q`` of the probability lies."""
-    r_max = max(radial_extent(n, l, Z=orbital.length_charge) for n, l in orbital.shells)
+    r_max = max(orbital.radial_extent(n, l) for n, l in orbital.shells)
     u = np.linspace(0.0, 1.0, 20001)
     r = r_max * u * u
     p = orbital.radial_distribution(r) * 2.0 * r_max * u

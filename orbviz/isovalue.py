@@ -24,7 +24,6 @@ import numpy as np
 from orbviz._defaults import DEFAULTS
 from orbviz.errors import ParameterError
 from orbviz.orbital import Orbital
-from orbviz.radial import radial_extent
 
 __all__ = ["Isovalue", "enclosed_probability", "enclosing_isovalue"]
 
@@ -163,22 +162,34 @@ def _midpoints(count: int, low: float, high: float) -> tuple[np.ndarray, float]:
     return low + (np.arange(count) + 0.5) * step, step
 
 
-def _radial_count(n: int, Z: float, r_max: float, step: float) -> int:
+def _radial_count(rate: float, r_max: float, step: float) -> int:
     """Radial nodes so that neighbouring samples differ by under two log steps in density.
 
-    In the tail R^2 falls as exp(-2Zr/n); on the square-root map dr <= 2 r_max / count.
+    In the tail R^2 falls as exp(-rate r); on the square-root map dr <= 2 r_max / count.
     """
-    return DEFAULTS.radial_points + int(2.0 * Z * r_max / (n * step))
+    return DEFAULTS.radial_points + int(rate * r_max / step)
 
 
 def _radial_samples(orbital: Orbital, n: int, l: int, refine: int) -> tuple[np.ndarray, ...]:
     """Radii on a square-root map (dense near the nucleus), R^2, and radial masses R^2 r^2 dr."""
-    Z = orbital.length_charge
-    r_max = radial_extent(n, l, Z=Z, tail=DEFAULTS.radial_tail)
-    u, du = _midpoints(_radial_count(n, Z, r_max, DEFAULTS.log_step / refine), 0.0, 1.0)
+    r_max = orbital.radial_extent(n, l, tail=DEFAULTS.radial_tail)
+    rate = _decay_rate(orbital, n, l, r_max)
+    u, du = _midpoints(_radial_count(rate, r_max, DEFAULTS.log_step / refine), 0.0, 1.0)
     r = r_max * u * u
     dens = orbital.radial(n, l, r) ** 2
     return r, dens, dens * r * r * (2.0 * r_max * u * du)
+
+
+def _decay_rate(orbital: Orbital, n: int, l: int, r_max: float) -> float:
+    """Largest fall-off rate of log R^2 in the tail, per bohr (2Z/n for hydrogen-like states)."""
+    if orbital.potential is None:
+        return 2.0 * orbital.length_charge / n
+    r = np.linspace(0.2 * r_max, r_max, 2001)
+    d = orbital.radial(n, l, r) ** 2
+    keep = d > 1e-250
+    if keep.sum() < 3:
+        return 2.0 / n
+    return float(np.abs(np.gradient(np.log(d[keep]), r[keep])).max())
 
 
 def _unit(t: np.ndarray, azimuth: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
@@ -243,7 +254,7 @@ class _Rays:
         shells = orbital.shells
         n_top = max(n for n, _ in shells)
         l_top = max(l for _, l in shells)
-        r_max = max(radial_extent(n, l, Z=orbital.length_charge) for n, l in shells)
+        r_max = max(orbital.radial_extent(n, l) for n, l in shells)
         u, du = _midpoints((300 + 100 * n_top) * refine, 0.0, 1.0)
         self.radii = r = r_max * u * u
         dr_mass = r * r * 2.0 * r_max * u * du

@@ -18,8 +18,10 @@ from orbviz.radial import (
     check_charge,
     check_quantum_numbers,
     energy_hartree,
+    radial_extent,
     radial_function,
     radial_function_reduced,
+    radial_node_radii,
 )
 from orbviz.spec import Atom, parse_spec
 
@@ -79,6 +81,9 @@ class Orbital:
         Remarks for the user (normalisation applied, global phase removed).
     element : str or None
         For a screened orbital (``Na:3s``), the element whose Slater charge is ``Z``.
+    potential : orbviz.potentials.Potential or None
+        A central potential other than -Z/r; its radial functions are solved numerically
+        (:mod:`orbviz.numerical`), one solution per (n, l), kept in ``solutions``.
 
     Notes
     -----
@@ -94,11 +99,20 @@ class Orbital:
     given_norm: float = 1.0
     notes: tuple[str, ...] = field(default=())
     element: str | None = None
+    potential: object = None
+    solutions: dict = field(default_factory=dict, compare=False, repr=False)
 
     # ----------------------------------------------------------------- construction
     @classmethod
     def from_spec(
-        cls, spec: str, /, *, Z: float | None = None, real: bool = False, mass_ratio: float = 1.0
+        cls,
+        spec: str,
+        /,
+        *,
+        Z: float | None = None,
+        real: bool = False,
+        mass_ratio: float = 1.0,
+        potential=None,
     ) -> Orbital:
         """Parse spec text (see :mod:`orbviz.spec`) into a normalised orbital.
 
@@ -112,6 +126,8 @@ class Orbital:
             Read ``n,l,m`` states as real combinations rather than Lz eigenstates.
         mass_ratio : float, default: 1.0
             Reduced mass over electron mass; see :func:`proton_mass_ratio`.
+        potential : orbviz.potentials.Potential, optional
+            Solve the radial functions numerically in this potential instead of -Z/r.
         """
         prefix = _ELEMENT_PREFIX.match(spec) if isinstance(spec, str) else None
         shorthand = []
@@ -128,9 +144,12 @@ class Orbital:
         if real:
             atoms = [Atom(a.n, a.l, a.m, "real", a.coefficient) for a in atoms]
         if prefix is None:
-            return cls.from_atoms(
+            orbital = cls.from_atoms(
                 atoms, Z=1.0 if Z is None else Z, mass_ratio=mass_ratio, spec=spec.strip()
             )
+            return orbital if potential is None else orbital.in_potential(potential)
+        if potential is not None:
+            raise SpecError(f"{spec!r}: an element prefix and a potential cannot be combined")
         orbital = cls._screened(prefix.group(1), atoms, Z, mass_ratio, spec.strip())
         if shorthand:
             note = (
@@ -241,14 +260,13 @@ class Orbital:
     @property
     def energy_hartree(self) -> float:
         """Energy, or its expectation value for a superposition of different n (hartree)."""
-        return sum(
-            abs(c) ** 2 * energy_hartree(n, Z=self.Z, mass_ratio=self.mass_ratio)
-            for (n, _, _), c in self.basis
-        )
+        return sum(abs(c) ** 2 * self.shell_energy(n, l) for (n, l, _), c in self.basis)
 
     @property
     def is_energy_eigenstate(self) -> bool:
-        """True if every component has the same n (degenerate states only)."""
+        """True if every component has the same energy (degenerate states only)."""
+        if self.potential is not None:
+            return len(self.shells) == 1
         return len({n for (n, _, _), _ in self.basis}) == 1
 
     # ----------------------------------------------------------------- evaluation
@@ -287,7 +305,11 @@ class Orbital:
         r = np.sqrt(x * x + y * y + z * z)
         total = None
         for (n, l), angular in self.shell_angular(x, y, z).items():
-            radial = radial_function_reduced(n, l, r, Z=self.length_charge, dtype=work)
+            if self.potential is not None:  # R / r^l from the numerical solution
+                with np.errstate(divide="ignore", invalid="ignore"):
+                    radial = (self.radial(n, l, r) / np.where(r > 0, r, 1.0) ** l).astype(work)
+            else:
+                radial = radial_function_reduced(n, l, r, Z=self.length_charge, dtype=work)
             term = radial * angular
             total = term if total is None else total + term
         return total
@@ -308,6 +330,42 @@ class Orbital:
             groups[(l, m)] = groups.get((l, m), 0) + c * self.radial(n, l, r)
         return r * r * sum(np.abs(g) ** 2 for g in groups.values())
 
+    def in_potential(self, potential) -> Orbital:
+        """Return the same state with radial functions solved numerically in ``potential``."""
+        from orbviz.numerical import solve_radial
+
+        solutions = {(n, l): solve_radial(potential, n, l) for n, l in self.shells}
+        note = f"radial functions solved numerically in {potential.describe()}"
+        return replace(self, potential=potential, solutions=solutions, notes=(*self.notes, note))
+
     def radial(self, n: int, l: int, r: npt.ArrayLike) -> np.ndarray:
-        """R_nl(r) at this orbital's charge and mass ratio."""
+        """R_nl(r): closed form at this orbital's charge and mass ratio, or the numerical one."""
+        if self.potential is not None:
+            return self.solutions[(n, l)].radial(np.asarray(r, dtype=np.float64))
         return radial_function(n, l, r, Z=self.length_charge)
+
+    def radial_extent(self, n: int, l: int, tail: float = 1e-13) -> float:
+        """Return a radius (bohr) beyond which less than ``tail`` of the shell's probability is."""
+        if self.potential is None:
+            return radial_extent(n, l, Z=self.length_charge, tail=tail)
+        s = self.solutions[(n, l)]
+        h = math.log(s.r[1] / s.r[0])
+        outside = np.cumsum((s.R**2 * s.r**3 * h)[::-1])[::-1]
+        beyond = np.flatnonzero(outside < tail)
+        return float(s.r[beyond[0]]) if beyond.size else float(s.r[-1])
+
+    def shell_energy(self, n: int, l: int) -> float:
+        """Energy of the (n, l) shell in hartree."""
+        if self.potential is not None:
+            return self.solutions[(n, l)].energy
+        return energy_hartree(n, Z=self.Z, mass_ratio=self.mass_ratio)
+
+    def node_radii(self, n: int, l: int) -> np.ndarray:
+        """Radial node radii (bohr): closed form, or sign changes of the numerical R."""
+        if self.potential is None:
+            return radial_node_radii(n, l, Z=self.length_charge)
+        s = self.solutions[(n, l)]
+        big = np.abs(s.R) > 1e-10 * np.abs(s.R).max()
+        r, v = s.r[big], s.R[big]
+        i = np.flatnonzero(np.sign(v[1:]) != np.sign(v[:-1]))
+        return r[i] - v[i] * (r[i + 1] - r[i]) / (v[i + 1] - v[i])  # linear root

@@ -17,7 +17,6 @@ from orbviz._defaults import DEFAULTS
 from orbviz.errors import ParameterError
 from orbviz.isovalue import enclosing_isovalue
 from orbviz.orbital import Orbital
-from orbviz.radial import radial_node_radii
 
 __all__ = ["RadialData", "SliceData", "radial_figure", "save_figure", "slice_figure"]
 
@@ -80,7 +79,7 @@ def _node_radii(orbital: Orbital) -> list[float]:
     if len(orbital.shells) != 1:
         return []
     n, l = orbital.shells[0]
-    return radial_node_radii(n, l, Z=orbital.length_charge).tolist()
+    return orbital.node_radii(n, l).tolist()
 
 
 def slice_figure(

@@ -16,7 +16,15 @@ import numpy.typing as npt
 
 from orbviz.errors import ParameterError
 
-__all__ = ["Coulomb", "Harmonic", "Potential", "Tabulated", "UserPotential", "Yukawa"]
+__all__ = [
+    "Coulomb",
+    "Harmonic",
+    "Potential",
+    "Tabulated",
+    "UserPotential",
+    "Yukawa",
+    "parse_potential",
+]
 
 
 class Potential:
@@ -142,3 +150,29 @@ class Tabulated(Potential):
 
     def describe(self) -> str:  # noqa: D102
         return f"table {self.name} ({self.r.size} points, {self.r[0]:g}-{self.r[-1]:g} bohr)"
+
+
+def parse_potential(text: str, *, Z: float = 1.0) -> Potential:
+    """Read ``coulomb``, ``yukawa:LENGTH``, ``harmonic:OMEGA`` or ``table:FILE`` (bohr, hartree).
+
+    ``Z`` is the charge of the Coulomb and Yukawa potentials.
+    """
+    kind, _, arg = text.strip().partition(":")
+    kind = kind.lower()
+    if kind == "table":
+        return Tabulated.from_file(arg)
+    if kind == "coulomb" and not arg:
+        return Coulomb(Z)
+    if kind in ("yukawa", "harmonic"):
+        try:
+            value = float(arg)
+        except ValueError:
+            raise ParameterError(
+                f"potential {text!r}: {kind} needs a number, e.g. {kind}:10"
+            ) from None
+        if not (math.isfinite(value) and value > 0):
+            raise ParameterError(f"potential {text!r}: the {kind} parameter must be > 0")
+        return Yukawa(Z, value) if kind == "yukawa" else Harmonic(value)
+    raise ParameterError(
+        f"unknown potential {text!r}; use coulomb, yukawa:LENGTH, harmonic:OMEGA or table:FILE"
+    )

@@ -287,14 +287,12 @@ def _node_overlays(fig: Figure, radius: float) -> None:
     """Translucent radial node spheres and angular nodal planes and cones."""
     import pyvista
 
-    from orbviz.radial import radial_node_radii
-
     orbital = fig.mesh.grid.field.orbital
     plotter = fig.plotter
     style = dict(color=(0.45, 0.45, 0.5), opacity=0.22, smooth_shading=True)
     if len(orbital.shells) == 1:
         n, l = orbital.shells[0]
-        for k, r0 in enumerate(radial_node_radii(n, l, Z=orbital.length_charge)):
+        for k, r0 in enumerate(orbital.node_radii(n, l)):
             name = f"radial-node-{k}"
             plotter.add_mesh(
                 pyvista.Sphere(radius=r0, theta_resolution=96, phi_resolution=48),

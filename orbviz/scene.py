@@ -48,6 +48,8 @@ _COMMON_KEYS = {
     "grid": int,
     "outputs": list,
     "colors": str,
+    "potential": str,
+    "atom": str,
 }
 _LETTERS = "spdf"
 _REAL_LABELS = {
@@ -177,6 +179,20 @@ def _shell_specs(n: int) -> list[str]:
     return specs
 
 
+def orbital_of(spec: str, settings: dict):
+    """Build an item's orbital (with its potential, if the item names one)."""
+    from orbviz.orbital import Orbital
+
+    if settings.get("potential"):
+        from orbviz.potentials import parse_potential
+
+        Z = 1.0 if settings["Z"] is None else settings["Z"]
+        return Orbital.from_spec(
+            spec, real=settings["real"], potential=parse_potential(settings["potential"], Z=Z)
+        )
+    return Orbital.from_spec(spec, Z=settings["Z"], real=settings["real"])
+
+
 def parse_scene(text: str, source: str = "<scene>") -> list[Item]:
     """Read scene TOML text into validated items.
 
@@ -186,8 +202,6 @@ def parse_scene(text: str, source: str = "<scene>") -> list[Item]:
         On TOML syntax errors, unknown keys, bad values, unsafe or duplicate names, and specs
         that do not parse, each naming the file, the item and the key.
     """
-    from orbviz.orbital import Orbital
-
     try:
         doc = tomllib.loads(text)
     except tomllib.TOMLDecodeError as error:
@@ -234,9 +248,11 @@ def parse_scene(text: str, source: str = "<scene>") -> list[Item]:
             own = _settings(entry, where, allow={"n"})
             specs = [(s, None) for n in ns for s in _shell_specs(n)]
         settings = _merge(defaults, own)
+        if settings.get("atom"):  # an element for every spec of the item: atom = "Na"
+            specs = [(f"{settings['atom']}:{spec}", name) for spec, name in specs]
         for spec, name in specs:
             try:
-                Orbital.from_spec(spec, Z=settings["Z"], real=settings["real"])
+                orbital_of(spec, settings)
             except OrbvizError as error:
                 raise SceneError(f"{where}: key 'spec': {error}") from None
             if name is None:

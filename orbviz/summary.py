@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import math
 from typing import Any
 
 import numpy as np
@@ -12,8 +13,6 @@ from orbviz.orbital import Orbital
 from orbviz.radial import (
     expectation_r,
     most_probable_radius,
-    radial_extent,
-    radial_node_radii,
 )
 
 __all__ = ["format_summary", "hartree_in_ev", "radial_matrix_element", "summarise"]
@@ -43,6 +42,13 @@ def radial_matrix_element(n1: int, n2: int, l: int, power: int, *, Z: float = 1.
     return float(np.sum(weights * np.exp(nodes) * f) / rate)
 
 
+def _numeric_element(orbital: Orbital, n1: int, n2: int, l: int, power: int) -> float:
+    """Integral of R1 R2 r^(2 + power) dr for numerically solved radial functions."""
+    s = orbital.solutions[(n1, l)]
+    h = math.log(s.r[1] / s.r[0])
+    return float(h * np.sum(s.R * orbital.radial(n2, l, s.r) * s.r ** (3 + power)))
+
+
 def _mean_radius(orbital: Orbital) -> float:
     """<r>, with cross terms between shells of equal (l, m) (angular parts are orthonormal)."""
     Z = orbital.length_charge
@@ -50,27 +56,37 @@ def _mean_radius(orbital: Orbital) -> float:
     for (n1, l1, m1), c1 in orbital.basis:
         for (n2, l2, m2), c2 in orbital.basis:
             if (l1, m1) == (l2, m2):
-                if n1 == n2:
-                    total += abs(c1) ** 2 * expectation_r(n1, l1, 1, Z=Z)
+                if orbital.potential is not None:
+                    element = _numeric_element(orbital, n1, n2, l1, 1)
+                elif n1 == n2:
+                    element = expectation_r(n1, l1, 1, Z=Z)
                 else:
                     element = radial_matrix_element(n1, n2, l1, 1, Z=Z)
-                    total += (c1.conjugate() * c2).real * element
+                total += (c1.conjugate() * c2).real * element
     return total
 
 
 def _most_probable_radius(orbital: Orbital) -> float:
     """Global maximum of r^2 sum_(l,m) |sum_n b_nlm R_nl(r)|^2, refined by successive zooms."""
-    if len(orbital.shells) == 1:
+    if len(orbital.shells) == 1 and orbital.potential is None:
         ((n, l),) = orbital.shells
         return most_probable_radius(n, l, Z=orbital.length_charge)
-    Z = orbital.length_charge
-    lo, hi = 0.0, max(radial_extent(n, l, Z=Z) for n, l in orbital.shells)
+    lo, hi = 0.0, max(orbital.radial_extent(n, l) for n, l in orbital.shells)
     for _ in range(6):
         r = np.linspace(lo, hi, 4001)
         i = int(np.argmax(orbital.radial_distribution(r)))
         step = r[1] - r[0]
         lo, hi = max(r[i] - step, 0.0), r[i] + step
     return 0.5 * (lo + hi)
+
+
+def _degeneracy(orbital: Orbital) -> int | None:
+    """n^2 for a hydrogen-like level; 2l + 1 (the central-potential minimum) otherwise."""
+    if not orbital.is_energy_eigenstate:
+        return None
+    if orbital.potential is None:
+        return orbital.shells[0][0] ** 2
+    return 2 * orbital.shells[0][1] + 1
 
 
 def summarise(orbital: Orbital, /, *, fraction: float = DEFAULTS.fraction) -> dict[str, Any]:
@@ -94,7 +110,6 @@ def summarise(orbital: Orbital, /, *, fraction: float = DEFAULTS.fraction) -> di
         ``surface_max_radius_bohr``, ``isovalue_method``, ``notes``.
     """
     state = orbital.eigenstate
-    Z = orbital.length_charge
     single_shell = len(orbital.shells) == 1
     n_l = orbital.shells[0] if single_shell else None
     iso = enclosing_isovalue(orbital, fraction=fraction)
@@ -116,10 +131,11 @@ def summarise(orbital: Orbital, /, *, fraction: float = DEFAULTS.fraction) -> di
         "mass_ratio": orbital.mass_ratio,
         "energy_hartree": energy,
         "energy_ev": energy * hartree_in_ev(),
-        "degeneracy": orbital.shells[0][0] ** 2 if orbital.is_energy_eigenstate else None,
+        "degeneracy": _degeneracy(orbital),
+        "potential": orbital.potential.describe() if orbital.potential is not None else None,
         "radial_nodes": n_l[0] - n_l[1] - 1 if n_l else None,
         "angular_nodes": state.l if state else None,
-        "radial_node_radii_bohr": radial_node_radii(*n_l, Z=Z).tolist() if n_l else None,
+        "radial_node_radii_bohr": orbital.node_radii(*n_l).tolist() if n_l else None,
         "mean_radius_bohr": _mean_radius(orbital),
         "most_probable_radius_bohr": _most_probable_radius(orbital),
         "fraction": iso.fraction,

@@ -88,3 +88,12 @@ def test_cli_info_and_mesh_for_a_screened_orbital(capsys, tmp_path):
     assert main(["mesh", "Fe:3dxy", "--grid", "48", "-o", str(tmp_path / "fe.stl")]) == 0
     status = main(["info", "Na:3s", "--Z", "2"])
     assert status == 2 and "leave out Z" in capsys.readouterr().err
+
+
+def test_scene_atom_key_prefixes_every_spec():
+    from orbviz.scene import SceneError, parse_scene
+
+    items = parse_scene('[[shells]]\nn = 2\natom = "C"\n', "a.toml")
+    assert [i.spec for i in items] == ["C:2s", "C:2px", "C:2py", "C:2pz"]
+    with pytest.raises(SceneError, match="no 3d electron"):
+        parse_scene('[[orbital]]\nspec = "3dz2"\natom = "Na"\n', "a.toml")
