@@ -19,6 +19,21 @@ from orbviz.numerical import _state, solve_radial
 from orbviz.potentials import Coulomb, Yukawa
 
 
+def numerov_pass(energy: float, r: np.ndarray, l: int = 0) -> float:
+    """One outward Numerov integration of u'' = 2 (V + l(l+1)/2r^2 - E) u for V = -1/r.
+
+    The recurrence is sequential, so it runs as a Python loop: this times the inner step of a
+    shooting method, for comparison with the matrix method used by orbviz.
+    """
+    h = r[1] - r[0]
+    k = 2.0 * (energy + 1.0 / r - l * (l + 1) / (2 * r * r))
+    f = 1.0 + h * h * k / 12.0
+    u0, u1 = 0.0, h
+    for i in range(1, r.size - 1):
+        u0, u1 = u1, ((12.0 - 10.0 * f[i]) * u1 - f[i - 1] * u0) / f[i + 1]
+    return u1
+
+
 def main() -> None:
     solve_radial(Coulomb(1.0), 2, 1)  # warm-up: imports
     rows = {}
@@ -44,6 +59,14 @@ def main() -> None:
         start = time.perf_counter()
         solve_radial(Yukawa(1.0, 10.0), 1, 0)
         yukawa.append(time.perf_counter() - start)
+    grid = np.linspace(1e-6, 40.0, 6000)  # as many points as the fine grid
+    passes = []
+    for _ in range(15):
+        start = time.perf_counter()
+        numerov_pass(-0.5, grid)
+        passes.append(time.perf_counter() - start)
+    numerov_ms = 1e3 * statistics.median(passes)
+    bisection_steps = math.ceil(math.log2(1.0 / 1e-10))  # an interval of 1 hartree to 1e-10
     worst = max(r["median_ms"] for r in rows.values())
     save(
         "radial",
@@ -53,6 +76,9 @@ def main() -> None:
             "worst_over_target_50ms": worst / 50.0,
             "one_eigensolve_4000_points_ms": 1e3 * statistics.median(eig),
             "yukawa_1s_median_ms": 1e3 * statistics.median(yukawa),
+        "numerov_one_pass_6000_points_ms": numerov_ms,
+        "numerov_shooting_estimate_ms": numerov_ms * bisection_steps,
+        "matrix_method_over_numerov_shooting": worst / (numerov_ms * bisection_steps),
         },
     )
 
