@@ -76,9 +76,9 @@ def main() -> None:
             "worst_over_target_50ms": worst / 50.0,
             "one_eigensolve_4000_points_ms": 1e3 * statistics.median(eig),
             "yukawa_1s_median_ms": 1e3 * statistics.median(yukawa),
-        "numerov_one_pass_6000_points_ms": numerov_ms,
-        "numerov_shooting_estimate_ms": numerov_ms * bisection_steps,
-        "matrix_method_over_numerov_shooting": worst / (numerov_ms * bisection_steps),
+            "numerov_one_pass_6000_points_ms": numerov_ms,
+            "numerov_shooting_estimate_ms": numerov_ms * bisection_steps,
+            "matrix_method_over_numerov_shooting": worst / (numerov_ms * bisection_steps),
         },
     )
 

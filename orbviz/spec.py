@@ -5,7 +5,8 @@ Grammar (whitespace is free, labels are case-insensitive)::
     spec   := term (("+" | "-") term)*
     term   := ["+" | "-"] [coef "*"] state
     coef   := real | real"j" | "(" complex ")"        e.g. 0.5   2j   (1+1j)   1e-3
-    state  := N label | N "," L "," M                  e.g. 2pz   3dx2-y2   4,2,-1
+    state  := N label | N "," L "," M | N hybrid "[" K "]"
+                                                       e.g. 2pz  3dx2-y2  4,2,-1  2sp3[1]
 
 ``N label`` is a real orbital; ``N,L,M`` is the complex eigenstate of Lz (the real combination
 when the caller asks for real forms).
@@ -27,6 +28,9 @@ _LABEL_ALT = "|".join(re.escape(k) for k in sorted(LABELS, key=len, reverse=True
 _STATE_LABEL = re.compile(rf"(?P<n>\d+)\s*(?P<label>{_LABEL_ALT})(?![a-z0-9(])", re.I)
 _STATE_NLM = re.compile(
     rf"(?P<n>[+-]?{_NUM})\s*,\s*(?P<l>[+-]?\s*{_NUM})\s*,\s*(?P<m>[+-]?\s*{_NUM})", re.I
+)
+_STATE_HYBRID = re.compile(
+    r"(?P<n>\d+)\s*(?P<name>sp3d2|sp3d|sp3|sp2|sp)\s*\[\s*(?P<k>\d+)\s*\]", re.I
 )
 _COEF = re.compile(rf"(?:\((?P<paren>[^()]*)\)|(?P<num>(?:{_NUM}|inf(?:inity)?|nan)j?))\s*\*", re.I)
 _SIGN = re.compile(r"[+-]")
@@ -117,6 +121,21 @@ def parse_spec(spec: str, /) -> list[Atom]:
             pos = coef_match.end()
             while pos < len(text) and text[pos].isspace():
                 pos += 1
+        state = _STATE_HYBRID.match(text, pos)
+        if state:
+            from orbviz.hybrids import hybrid_terms
+
+            for label, weight in hybrid_terms(
+                int(state.group("n")), state.group("name").lower(), int(state.group("k"))
+            ):
+                l, m = LABELS[label.lstrip("0123456789")]
+                atoms.append(Atom(int(state.group("n")), l, m, "real", sign * coef * weight))
+            pos = state.end()
+            while pos < len(text) and text[pos].isspace():
+                pos += 1
+            if pos >= len(text):
+                return atoms
+            continue
         state = _STATE_NLM.match(text, pos)
         if state:
             atom = Atom(
