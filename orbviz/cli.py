@@ -393,6 +393,42 @@ def _add_colors(parser: argparse.ArgumentParser) -> None:
     )
 
 
+def _cmd_animate(args: argparse.Namespace) -> int:
+    from pathlib import Path
+
+    out = Path(args.output)
+    if out.suffix.lower() not in ("", ".gif"):
+        from orbviz.errors import OutputError
+
+        raise OutputError(
+            f"cannot write {args.output!r}: animations go to .gif or a folder "
+            "(an MP4 encoder is not part of orbviz)"
+        )
+    parent = out.parent if out.suffix else out.resolve().parent
+    if not parent.is_dir():
+        raise ParameterError(f"cannot write {args.output!r}: folder {str(parent)!r} does not exist")
+    from orbviz.render import FigureOptions
+
+    orbital = _orbital(args)
+    from orbviz.animate import animate, write_animation
+
+    movie = animate(
+        orbital,
+        frames=args.frames,
+        periods=args.periods,
+        fraction=args.fraction,
+        grid=args.grid,
+        options=FigureOptions(size=args.size),
+    )
+    written = write_animation(movie, out)
+    where = written[0] if out.suffix else out
+    print(
+        f"wrote {where}: {len(movie.images)} frames over {args.periods:g} period(s) of "
+        f"T = {movie.beat.femtoseconds:.4g} fs; level {movie.level:.4e} bohr^-3 throughout"
+    )
+    return 0
+
+
 def _build_parser() -> _Parser:
     parser = _Parser(
         prog="orbviz",
@@ -566,6 +602,22 @@ def _build_parser() -> _Parser:
     _add_colors(model)
     model.add_argument("--report", metavar="FILE.json", help="write the model facts as JSON")
     model.set_defaults(run=_cmd_model)
+
+    animate = _subcommand(
+        sub,
+        "animate",
+        "a superposition in motion: frames of psi(t), one level, the period in fs",
+        "Plays psi(t) = sum c_k psi_k exp(-i E_k t) over its beat period T = 2 pi / dE, at one "
+        "fixed isovalue for every frame, coloured by phase; writes an animated GIF or a folder "
+        "of PNG frames. A superposition of degenerate states does not move and is refused.",
+    )
+    _add_orbital_options(animate)
+    animate.add_argument("-o", "--output", required=True, metavar="FILE.gif|DIR")
+    animate.add_argument("--frames", type=_positive_int("frames"), default=24)
+    animate.add_argument("--periods", type=_finite("periods"), default=1.0)
+    animate.add_argument("--grid", type=_positive_int("grid"), default=96)
+    animate.add_argument("--size", type=_size, default=(800, 600), metavar="WxH")
+    animate.set_defaults(run=_cmd_animate)
 
     batch = sub.add_parser(
         "batch",

@@ -151,6 +151,7 @@ def build_mesh(
     faces: int | None = None,
     colors=DEFAULT_PAIR,
     half_width: float | None = None,
+    level: Isovalue | None = None,
 ) -> OrbitalMesh:
     """Isosurface bodies of an orbital enclosing ``fraction`` of its probability.
 
@@ -170,6 +171,8 @@ def build_mesh(
         Positive and negative colours of a real state.
     half_width : float, optional
         Fix the box (bohr) instead of sizing it from the probability; it must hold the surface.
+    level : Isovalue, optional
+        Use this level instead of solving for ``fraction`` (frames of one animation share it).
 
     Returns
     -------
@@ -181,7 +184,7 @@ def build_mesh(
         raise ParameterError(f"--faces must be an integer of at least 100, got {faces!r}")
     if smoothing < 0:
         raise ParameterError(f"smoothing iterations must be >= 0, got {smoothing}")
-    iso = enclosing_isovalue(orbital, fraction=fraction)
+    iso = enclosing_isovalue(orbital, fraction=fraction) if level is None else level
     field = field_of(orbital)
     width = box_half_width(orbital, iso, grid) if half_width is None else float(half_width)
     if not (math.isfinite(width) and width > iso.max_radius):

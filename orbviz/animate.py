@@ -1,0 +1,157 @@
+"""Frames of a moving superposition: one fixed level and box, phase colours, a captioned period."""
+
+from __future__ import annotations
+
+import math
+import os
+from dataclasses import dataclass, replace
+from pathlib import Path
+
+import numpy as np
+
+from orbviz._defaults import DEFAULTS
+from orbviz.dynamics import Beat, beat_period, evolve
+from orbviz.errors import OutputError, ParameterError
+from orbviz.isovalue import Isovalue, enclosing_isovalue
+from orbviz.orbital import Orbital
+
+__all__ = ["Animation", "animate", "write_animation"]
+
+
+@dataclass
+class Animation:
+    """The frames of an animation and what made them.
+
+    Attributes
+    ----------
+    images : list of (H, W, 4) uint8 arrays
+        The rendered frames.
+    times : list of float
+        Frame times in atomic units (midpoints of equal steps).
+    beat : Beat
+        The period of the density.
+    level : float
+        The one density level (bohr^-3) of every frame.
+    meshes : list of OrbitalMesh
+        The surfaces, one per frame.
+    """
+
+    images: list[np.ndarray]
+    times: list[float]
+    beat: Beat
+    level: float
+    meshes: list
+
+
+def _fixed_level(orbital: Orbital, beat: Beat, fraction: float, samples: int = 4) -> Isovalue:
+    """One level for the whole period: the geometric mean of the enclosing levels at a few times."""
+    levels, reach = [], 0.0
+    for k in range(samples):
+        iso = enclosing_isovalue(
+            evolve(orbital, (k + 0.5) * beat.period / samples), fraction=fraction
+        )
+        levels.append(iso.level)
+        reach = max(reach, iso.max_radius)
+    level = math.exp(sum(math.log(v) for v in levels) / samples)
+    return Isovalue(level, fraction, float("nan"), reach, "period mean")
+
+
+def animate(
+    orbital: Orbital,
+    /,
+    *,
+    frames: int = 24,
+    periods: float = 1.0,
+    fraction: float = DEFAULTS.fraction,
+    grid: int = 96,
+    options=None,
+) -> Animation:
+    """Render ``frames`` frames over ``periods`` beat periods of a superposition.
+
+    Raises
+    ------
+    StationaryError
+        For a superposition of degenerate states (it does not move).
+    """
+    from orbviz.grid import box_half_width
+    from orbviz.mesh import build_mesh
+    from orbviz.render import FigureOptions, _polys, figure
+
+    if not (isinstance(frames, int) and 2 <= frames <= 1000):
+        raise ParameterError(f"--frames must be a whole number from 2 to 1000, got {frames!r}")
+    if not (math.isfinite(periods) and 0 < periods <= 100):
+        raise ParameterError(f"--periods must be in (0, 100], got {periods}")
+    beat = beat_period(orbital)
+    iso = _fixed_level(orbital, beat, fraction)
+    width = box_half_width(orbital, iso, grid)
+    opts = (options or FigureOptions()).checked()
+    times = [(k + 0.5) * periods * beat.period / frames for k in range(frames)]
+    fs = beat.femtoseconds / beat.period
+    fig, images, meshes, names = None, [], [], []
+    for t in times:
+        state = evolve(orbital, t)
+        mesh = build_mesh(
+            state, fraction=fraction, grid=grid, colors=opts.colors, half_width=width, level=iso
+        )
+        caption = f"{orbital.spec}   t = {t * fs:.3f} fs of T = {beat.femtoseconds:.3f} fs" + (
+            "" if beat.exact else " (not exactly periodic)"
+        )
+        frame_opts = replace(opts, title=caption, extent=width)
+        if fig is None:  # one plotter for all frames: the EGL context opens once
+            fig = figure(state, fraction=fraction, grid=grid, options=frame_opts, mesh=mesh)
+            names = list(_polys(mesh))
+        else:
+            for name in names:
+                fig.plotter.remove_actor(name)
+            names = []
+            for name, poly in _polys(mesh).items():
+                fig.plotter.add_mesh(
+                    poly,
+                    scalars="RGBA",
+                    rgb=True,
+                    smooth_shading=True,
+                    specular=0.25,
+                    specular_power=30,
+                    ambient=0.18,
+                    diffuse=0.85,
+                    name=name,
+                )
+                names.append(name)
+            fig.mesh, fig.options = mesh, frame_opts
+        images.append(fig.image())
+        meshes.append(mesh)
+    fig.plotter.close()
+    return Animation(images, times, beat, iso.level, meshes)
+
+
+def write_animation(animation: Animation, path: str | os.PathLike, *, seconds: float = 3.0):
+    """Write frames as an animated GIF (looping, one period in ``seconds``) or PNGs in a folder."""
+    from PIL import Image
+
+    from orbviz.export import atomic_paths
+
+    path = Path(path)
+    pictures = [Image.fromarray(img, "RGBA").convert("RGB") for img in animation.images]
+    if path.suffix.lower() == ".gif":
+        duration = max(20, int(1000 * seconds / len(pictures)))
+        with atomic_paths(path) as (temp,):
+            pictures[0].save(
+                temp,
+                format="GIF",
+                save_all=True,
+                append_images=pictures[1:],
+                duration=duration,
+                loop=0,
+            )
+        return [path]
+    if path.suffix:
+        raise OutputError(
+            f"cannot write {str(path)!r}: animations go to .gif or a folder "
+            "(an MP4 encoder is not part of orbviz)"
+        )
+    path.mkdir(parents=True, exist_ok=True)
+    targets = [path / f"frame_{k:03d}.png" for k in range(len(pictures))]
+    with atomic_paths(*targets) as temps:
+        for picture, temp in zip(pictures, temps, strict=True):
+            picture.save(temp, format="PNG")
+    return targets

@@ -1,0 +1,94 @@
+"""Superpositions in motion: psi(t) = sum_k c_k psi_k exp(-i E_k t), and the frames of its beat.
+
+Times are in atomic units (hbar / hartree); femtoseconds come from CODATA's atomic unit of time
+(scipy.constants).
+"""
+
+from __future__ import annotations
+
+import cmath
+import math
+from dataclasses import dataclass, replace
+from fractions import Fraction
+
+from orbviz.errors import OrbvizError
+from orbviz.orbital import Orbital
+
+__all__ = ["StationaryError", "atomic_time_fs", "beat_period", "evolve"]
+
+
+class StationaryError(OrbvizError, ValueError):
+    """The state's density does not move: every component has the same energy."""
+
+
+def atomic_time_fs() -> float:
+    """Return the atomic unit of time in femtoseconds (CODATA, via scipy.constants)."""
+    from scipy.constants import physical_constants
+
+    return physical_constants["atomic unit of time"][0] * 1e15
+
+
+def evolve(orbital: Orbital, t: float, /) -> Orbital:
+    """Return the state at time t (atomic units): each component turned by exp(-i E t).
+
+    The density is unchanged by a global phase, so times are measured from the given state.
+    """
+    basis = tuple(
+        (key, c * cmath.exp(-1j * orbital.shell_energy(key[0], key[1]) * t))
+        for key, c in orbital.basis
+    )
+    return replace(orbital, basis=basis, notes=())
+
+
+@dataclass(frozen=True)
+class Beat:
+    """The repeat time of a moving density.
+
+    Attributes
+    ----------
+    period : float
+        In atomic units of time.
+    exact : bool
+        True if the density repeats exactly after ``period``. That needs commensurate energy
+        differences, as hydrogen-like levels have; otherwise it is the slowest pair's period.
+    """
+
+    period: float
+    exact: bool
+
+    @property
+    def femtoseconds(self) -> float:
+        """The period in fs."""
+        return self.period * atomic_time_fs()
+
+
+def beat_period(orbital: Orbital, /) -> Beat:
+    """Period of |psi(t)|^2.
+
+    Hydrogen-like energies are -Z^2 mu / 2n^2, so their differences are rational multiples of
+    Z^2 mu. The density repeats after 2 pi over the greatest common divisor of the differences.
+
+    Raises
+    ------
+    StationaryError
+        If all components have one energy (a degenerate superposition does not move).
+    """
+    energies = sorted({orbital.shell_energy(n, l) for (n, l, _), _ in orbital.basis})
+    if len(energies) < 2 or max(energies) - min(energies) < 1e-12 * abs(min(energies)):
+        raise StationaryError(
+            f"{orbital.spec!r} does not move: every component has the energy "
+            f"{energies[0]:.6g} hartree, so |psi|^2 is the same at all times"
+        )
+    if orbital.potential is None:
+        scale = orbital.Z**2 * orbital.mass_ratio / 2
+        levels = sorted({Fraction(1, n * n) for (n, _, _), _ in orbital.basis})
+        gaps = [b - a for a, b in zip(levels, levels[1:], strict=False)]
+        step = gaps[0]
+        for gap in gaps[1:]:
+            step = Fraction(
+                math.gcd(step.numerator * gap.denominator, gap.numerator * step.denominator),
+                step.denominator * gap.denominator,
+            )
+        return Beat(2 * math.pi / (scale * float(step)), True)
+    smallest = min(b - a for a, b in zip(energies, energies[1:], strict=False))
+    return Beat(2 * math.pi / smallest, len(energies) == 2)

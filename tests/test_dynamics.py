@@ -1,0 +1,124 @@
+"""Superpositions in motion: norm, the beat period of <z>(t) against CODATA, frames, refusals."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+from scipy.constants import physical_constants
+from scipy.optimize import curve_fit
+
+from orbviz.cli import main
+from orbviz.dynamics import StationaryError, beat_period, evolve
+from orbviz.orbital import Orbital
+
+
+def _quadrature(order=32, radial=160, rate=0.5):
+    t, wt = np.polynomial.legendre.leggauss(order)
+    phi = np.arange(2 * order) * math.pi / order
+    x, wr = np.polynomial.laguerre.laggauss(radial)
+    r, wr = x / rate, wr * np.exp(x) / rate
+    R, T, P = np.meshgrid(r, t, phi, indexing="ij")
+    W = wr[:, None, None] * wt[None, :, None] * (math.pi / order) * R**2
+    s = np.sqrt(1 - T**2)
+    return R * s * np.cos(P), R * s * np.sin(P), R * T, W
+
+
+def test_norm_is_conserved():
+    x, y, z, w = _quadrature()
+    orbital = Orbital.from_spec("0.6*1s + 0.8*3dz2 + 0.5j*2pz")
+    for t in [0.0, 3.7, 41.0, 1e3]:
+        dens = np.abs(evolve(orbital, t).psi(x, y, z, dtype=np.float64)) ** 2
+        assert np.sum(dens * w) == pytest.approx(1.0, abs=1e-8)
+
+
+def test_z_expectation_beats_with_the_codata_period():
+    # E_n = -R_inf hc / n^2 (CODATA): 1s-2p gap (3/4) R_inf hc, so T = h / dE
+    rydberg = physical_constants["Rydberg constant times hc in eV"][0]
+    planck = physical_constants["Planck constant in eV/Hz"][0]
+    expected = planck / (0.75 * rydberg) * 1e15  # fs
+    orbital = Orbital.from_spec("1s + 2pz")
+    beat = beat_period(orbital)
+    assert beat.femtoseconds == pytest.approx(expected, rel=1e-9)
+    x, y, z, w = _quadrature()
+    times = np.linspace(0, 2 * beat.period, 25)
+    mean_z = [
+        np.sum(z * np.abs(evolve(orbital, t).psi(x, y, z, dtype=np.float64)) ** 2 * w)
+        for t in times
+    ]
+    import warnings
+
+    from scipy.optimize import OptimizeWarning
+
+    with warnings.catch_warnings():  # the model fits exactly, so its covariance is singular
+        warnings.simplefilter("ignore", OptimizeWarning)
+        (amplitude, omega, phase), _ = curve_fit(
+            lambda t, a, om, p: a * np.cos(om * t + p),
+            times,
+            mean_z,
+            p0=[0.7, 2 * math.pi / beat.period, 0.0],
+        )
+    assert 2 * math.pi / omega * physical_constants["atomic unit of time"][
+        0
+    ] * 1e15 == pytest.approx(expected, rel=1e-6)
+    # amplitude 2 c1 c2 <1s|z|2p0> = <1s|z|2p0> = 128 sqrt2 / 243 bohr (Bethe & Salpeter, from
+    # memory; it also follows from the closed forms of R_10 and R_21)
+    assert abs(amplitude) == pytest.approx(128 * math.sqrt(2) / 243, rel=1e-6)
+
+
+def test_frames_share_one_level_and_move(tmp_path):
+    from orbviz.animate import animate, write_animation
+    from orbviz.render import FigureOptions
+
+    movie = animate(
+        Orbital.from_spec("1s+2pz"), frames=6, grid=40, options=FigureOptions(size=(160, 120))
+    )
+    assert len(movie.images) == 6 and all(img.shape == (120, 160, 4) for img in movie.images)
+    assert all(m.isovalue.level == movie.level for m in movie.meshes)
+    # the enclosed volume's centre of mass (trimesh) swings up and down along z in one period
+    import trimesh
+
+    centre = [
+        trimesh.util.concatenate([b.to_trimesh() for b in m.bodies]).center_mass[2]
+        for m in movie.meshes
+    ]
+    assert max(centre) > 0.2 and min(centre) < -0.2
+    written = write_animation(movie, tmp_path / "frames")
+    assert [p.name for p in written] == [f"frame_{k:03d}.png" for k in range(6)]
+
+
+def test_degenerate_superposition_is_refused(capsys):
+    with pytest.raises(StationaryError):
+        beat_period(Orbital.from_spec("2s + 2pz"))
+    assert main(["animate", "2px+2py", "-o", "x.gif"]) == 2
+    err = capsys.readouterr().err
+    assert "does not move" in err and err.count("\n") == 1
+
+
+def test_animate_cli_gif(tmp_path, capsys):
+    from PIL import Image
+
+    out = tmp_path / "beat.gif"
+    assert (
+        main(
+            [
+                "animate",
+                "1s+2pz",
+                "--frames",
+                "4",
+                "--grid",
+                "32",
+                "--size",
+                "160x120",
+                "-o",
+                str(out),
+            ]
+        )
+        == 0
+    )
+    with Image.open(out) as image:
+        assert image.n_frames == 4
+    assert "T = 0.4053 fs" in capsys.readouterr().out
+    assert main(["animate", "1s+2pz", "-o", str(tmp_path / "beat.mp4")]) == 2
+    assert "MP4" in capsys.readouterr().err
