@@ -219,6 +219,21 @@ def _cmd_render(args: argparse.Namespace) -> int:
         extent=args.extent,
         colors=parse_colors(args.colors) if args.colors else DEFAULT_PAIR,
     ).checked()
+    from orbviz.hybrids import hybrid_set
+
+    members = hybrid_set(args.spec)
+    if members is not None:  # a whole hybrid set in one figure
+        from orbviz.render import render_png, set_figure
+
+        orbitals = []
+        for member in members:
+            args.spec, keep = member, args.spec
+            orbitals.append(_orbital(args))
+            args.spec = keep
+        fig = set_figure(orbitals, fraction=args.fraction, grid=args.grid, options=options)
+        render_png(fig, out)
+        print(f"wrote {out}: the {len(orbitals)} {args.spec} hybrids in one figure")
+        return 0
     orbital = _orbital(args)
     from orbviz.render import figure, render_png
 

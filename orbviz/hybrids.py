@@ -21,8 +21,11 @@ lobe points along its named direction, as textbooks draw them with nodeless s fu
 from __future__ import annotations
 
 import math
+import re
 
-__all__ = ["HYBRIDS", "hybrid_terms"]
+__all__ = ["HYBRIDS", "hybrid_set", "hybrid_terms"]
+
+_SET = re.compile(r"\s*(\d+)\s*(sp3d2|sp3d|sp3|sp2|sp)\s*$", re.I)
 
 _R2, _R3, _R6 = math.sqrt(2.0), math.sqrt(3.0), math.sqrt(6.0)
 _SP2 = [
@@ -67,3 +70,12 @@ def hybrid_terms(n: int, name: str, index: int) -> list[tuple[str, float]]:
         l, _ = LABELS[label]
         out.append((f"{n}{label}", coef * (-1) ** (n - l - 1)))  # outer lobe positive
     return out
+
+
+def hybrid_set(spec: str) -> list[str] | None:
+    """``"2sp3"`` -> the member specs ``["2sp3[1]", ..., "2sp3[4]"]``; None if not a set name."""
+    match = _SET.fullmatch(spec) if isinstance(spec, str) else None
+    if match is None:
+        return None
+    n, name = int(match.group(1)), match.group(2).lower()
+    return [f"{n}{name}[{k}]" for k in range(1, len(HYBRIDS[name]) + 1)]

@@ -24,7 +24,7 @@ from orbviz.errors import ParameterError
 from orbviz.mesh import OrbitalMesh, build_mesh
 from orbviz.orbital import Orbital
 
-__all__ = ["Figure", "FigureOptions", "figure", "parse_view", "render_png"]
+__all__ = ["Figure", "FigureOptions", "figure", "parse_view", "render_png", "set_figure"]
 
 VIEWS = {"iso": (35.0, 25.0), "x": (0.0, 0.0), "y": (90.0, 0.0), "z": (0.0, 90.0)}
 LIGHTING = ("soft", "studio", "flat")
@@ -532,3 +532,68 @@ def render_png(fig: Figure, path: str | os.PathLike) -> Path:
     with atomic_paths(path) as (temp,):
         Image.fromarray(img, "RGBA").save(temp, format="PNG", optimize=False)
     return path
+
+
+SET_PALETTE = [  # Okabe & Ito (2008), colour-blind safe, one colour per hybrid of a set
+    (0, 114, 178),
+    (213, 94, 0),
+    (0, 158, 115),
+    (204, 121, 167),
+    (230, 159, 0),
+    (86, 180, 233),
+]
+
+
+def set_figure(
+    orbitals: list[Orbital],
+    /,
+    *,
+    fraction: float = DEFAULTS.fraction,
+    grid: int = DEFAULTS.grid,
+    options: FigureOptions | None = None,
+) -> Figure:
+    """One figure of a whole set (e.g. the four sp3 hybrids), each in its own colour.
+
+    Each member's positive body (its large lobe) is drawn opaque in a colour of the Okabe-Ito
+    palette; the negative bodies (the small lobes) translucent grey. All share one box and one
+    framing.
+    """
+    from orbviz.grid import box_half_width
+    from orbviz.isovalue import enclosing_isovalue
+
+    opts = (options or FigureOptions()).checked()
+    isos = [enclosing_isovalue(o, fraction=fraction) for o in orbitals]
+    width = opts.extent or max(
+        box_half_width(o, i, grid) for o, i in zip(orbitals, isos, strict=True)
+    )
+    meshes = [
+        build_mesh(o, fraction=fraction, grid=grid, half_width=width, level=i)
+        for o, i in zip(orbitals, isos, strict=True)
+    ]
+    fig = figure(orbitals[0], fraction=fraction, grid=grid, options=opts, mesh=meshes[0])
+    for name in list(_polys(meshes[0])):
+        fig.plotter.remove_actor(name)
+    for k, mesh in enumerate(meshes):
+        for name, poly in _polys(mesh).items():
+            style = (
+                dict(
+                    color=np.array(SET_PALETTE[k % len(SET_PALETTE)]) / 255.0,
+                    specular=0.25,
+                    specular_power=30,
+                    ambient=0.18,
+                    diffuse=0.85,
+                )
+                if name != "negative"
+                else dict(color=(0.6, 0.6, 0.6), opacity=0.35)
+            )
+            fig.plotter.add_mesh(poly, smooth_shading=True, name=f"{k}-{name}", **style)
+            fig.overlays.setdefault("members", []).append(f"{k}-{name}")
+    vertices = np.vstack([b.vertices for m in meshes for b in m.bodies])
+    _, right, up = _camera_axes(opts.view)
+    w, h = fig.plotter.window_size
+    if opts.extent is None:
+        fig.half_height = 1.2 * max(
+            np.abs(vertices @ up).max(), np.abs(vertices @ right).max() * h / w
+        )
+    fig.plotter.camera.parallel_scale = fig.half_height
+    return fig

@@ -117,3 +117,39 @@ def test_large_positive_lobe_points_along_the_named_direction(spec, axis):
     assert math.degrees(math.acos(np.clip(d @ axis, -1, 1))) < 1.0
     # and psi is positive there (scipy-built psi along the axis, out at the outer lobe)
     assert reference_psi(_terms(spec), *(_radius(spec) * axis)[:, None]).real[0] > 0
+
+
+def test_whole_set_in_one_figure(tmp_path, capsys):
+    from PIL import Image
+
+    from orbviz.cli import main
+    from orbviz.render import SET_PALETTE
+
+    out = tmp_path / "set.png"
+    assert (
+        main(
+            [
+                "render",
+                "2sp3",
+                "--grid",
+                "40",
+                "--size",
+                "320x240",
+                "--fraction",
+                "0.5",
+                "--view",
+                "20,10",
+                "-o",
+                str(out),
+            ]
+        )
+        == 0
+    )
+    assert "4 2sp3 hybrids" in capsys.readouterr().out
+    with Image.open(out) as image:
+        img = np.asarray(image.convert("RGB")).astype(float)
+    # each of the four members shows in its own palette colour (hue match, any shading)
+    unit = img / np.maximum(np.linalg.norm(img, axis=2, keepdims=True), 1)
+    for rgb in SET_PALETTE[:4]:
+        target = np.array(rgb, dtype=float) / np.linalg.norm(rgb)
+        assert np.mean((unit @ target > 0.99) & (img.sum(axis=2) > 60)) > 0.005
