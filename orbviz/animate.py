@@ -15,7 +15,7 @@ from orbviz.errors import OutputError, ParameterError
 from orbviz.isovalue import Isovalue, enclosing_isovalue
 from orbviz.orbital import Orbital
 
-__all__ = ["Animation", "animate", "write_animation"]
+__all__ = ["Animation", "animate", "write_animation", "write_gltf_animation"]
 
 
 @dataclass
@@ -131,6 +131,8 @@ def write_animation(animation: Animation, path: str | os.PathLike, *, seconds: f
     from orbviz.export import atomic_paths
 
     path = Path(path)
+    if path.suffix.lower() in (".glb", ".gltf"):
+        return write_gltf_animation(animation, path, seconds=seconds)
     pictures = [Image.fromarray(img, "RGBA").convert("RGB") for img in animation.images]
     if path.suffix.lower() == ".gif":
         duration = max(20, int(1000 * seconds / len(pictures)))
@@ -155,3 +157,86 @@ def write_animation(animation: Animation, path: str | os.PathLike, *, seconds: f
         for picture, temp in zip(pictures, temps, strict=True):
             picture.save(temp, format="PNG")
     return targets
+
+
+def write_gltf_animation(
+    animation: Animation, path: str | os.PathLike, *, seconds: float = 3.0
+) -> list[Path]:
+    """Write a GLB/glTF with one node per frame, shown in turn by a STEP scale animation.
+
+    Every frame's bodies hang under a node ``frame-K``. One animation gives each such node a
+    scale track that is 1 during its frame's interval and 0 otherwise, so web viewers play the
+    frames in turn; the root node turns z up, as in :mod:`orbviz.export.gltf`.
+    """
+    import trimesh
+    from trimesh.exchange.gltf import export_glb
+
+    from orbviz.export import atomic_paths, check_output
+    from orbviz.export._scene import body_mesh
+    from orbviz.export.gltf import _postprocess
+
+    path = check_output(path, suffixes={".glb": None, ".gltf": None})
+    scene = trimesh.Scene()
+    count = len(animation.meshes)
+    for k, mesh in enumerate(animation.meshes):
+        scene.graph.update(frame_from=scene.graph.base_frame, frame_to=f"frame-{k}")
+        for body in mesh.bodies:
+            scene.add_geometry(
+                body_mesh(body, 1.0, material=True),
+                geom_name=f"frame-{k}-{body.name}",
+                node_name=f"frame-{k}-{body.name}",
+                parent_node_name=f"frame-{k}",
+            )
+    step = seconds / count
+    times = (np.arange(count) * step).astype(np.float32)
+    accessors: dict[str, int] = {}
+
+    def add_buffers(buffer_items, tree) -> None:
+        def append(key: str, array: np.ndarray, kind: str, extra: dict) -> None:
+            data = array.astype(np.float32).tobytes()
+            data += b"\0" * (-len(data) % 4)
+            buffer_items[f"orbviz-{key}"] = data
+            view = len(buffer_items) - 1
+            tree["accessors"][f"orbviz-{key}"] = {
+                "bufferView": view,
+                "componentType": 5126,
+                "count": int(len(array)),
+                "type": kind,
+                **extra,
+            }
+            accessors[key] = len(tree["accessors"]) - 1
+
+        append("times", times, "SCALAR", {"min": [float(times[0])], "max": [float(times[-1])]})
+        for k in range(count):
+            scale = np.zeros((count, 3), dtype=np.float32)
+            scale[k] = 1.0
+            append(f"scale-{k}", scale, "VEC3", {})
+
+    def add_animation(tree) -> None:
+        _postprocess("bohr")(tree)
+        index = {node.get("name"): i for i, node in enumerate(tree["nodes"])}
+        samplers, channels = [], []
+        for k in range(count):
+            node = index[f"frame-{k}"]
+            tree["nodes"][node]["scale"] = [1.0, 1.0, 1.0] if k == 0 else [0.0, 0.0, 0.0]
+            samplers.append(
+                {
+                    "input": accessors["times"],
+                    "output": accessors[f"scale-{k}"],
+                    "interpolation": "STEP",
+                }
+            )
+            channels.append({"sampler": k, "target": {"node": node, "path": "scale"}})
+        tree["animations"] = [{"name": "beat", "samplers": samplers, "channels": channels}]
+
+    if path.suffix.lower() == ".glb":
+        data = export_glb(
+            scene,
+            include_normals=True,
+            tree_postprocessor=add_animation,
+            buffer_postprocessor=add_buffers,
+        )
+        with atomic_paths(path) as (temp,):
+            temp.write_bytes(data)
+        return [path]
+    raise OutputError("animated glTF is written as .glb (one file); use a .glb name")

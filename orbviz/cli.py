@@ -412,7 +412,7 @@ def _cmd_animate(args: argparse.Namespace) -> int:
     from pathlib import Path
 
     out = Path(args.output)
-    if out.suffix.lower() not in ("", ".gif"):
+    if out.suffix.lower() not in ("", ".gif", ".glb"):
         from orbviz.errors import OutputError
 
         raise OutputError(
@@ -627,7 +627,7 @@ def _build_parser() -> _Parser:
         "of PNG frames. A superposition of degenerate states does not move and is refused.",
     )
     _add_orbital_options(animate)
-    animate.add_argument("-o", "--output", required=True, metavar="FILE.gif|DIR")
+    animate.add_argument("-o", "--output", required=True, metavar="FILE.gif|FILE.glb|DIR")
     animate.add_argument("--frames", type=_positive_int("frames"), default=24)
     animate.add_argument("--periods", type=_finite("periods"), default=1.0)
     animate.add_argument("--grid", type=_positive_int("grid"), default=96)

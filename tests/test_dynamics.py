@@ -122,3 +122,45 @@ def test_animate_cli_gif(tmp_path, capsys):
     assert "T = 0.4053 fs" in capsys.readouterr().out
     assert main(["animate", "1s+2pz", "-o", str(tmp_path / "beat.mp4")]) == 2
     assert "MP4" in capsys.readouterr().err
+
+
+def test_animated_glb_passes_the_khronos_validator(tmp_path):
+    import json as _json
+    import struct
+
+    from tests.test_export import _validate
+
+    out = tmp_path / "beat.glb"
+    assert (
+        main(
+            [
+                "animate",
+                "1s+2pz",
+                "--frames",
+                "5",
+                "--grid",
+                "32",
+                "--size",
+                "120x90",
+                "-o",
+                str(out),
+            ]
+        )
+        == 0
+    )
+    report = _validate(out)  # the Khronos reference validator
+    assert report["issues"]["numErrors"] == 0
+    assert report["info"]["animationCount"] == 1
+    # one node per frame, each with a STEP scale track (read from the GLB's JSON chunk)
+    data = out.read_bytes()
+    length = struct.unpack("<I", data[12:16])[0]
+    tree = _json.loads(data[20 : 20 + length])
+    frames = [
+        n
+        for n in tree["nodes"]
+        if n.get("name", "").startswith("frame-") and n["name"].count("-") == 1
+    ]
+    assert len(frames) == 5
+    (anim,) = tree["animations"]
+    assert len(anim["channels"]) == 5
+    assert all(s["interpolation"] == "STEP" for s in anim["samplers"])
