@@ -114,6 +114,18 @@ def _orbital(args: argparse.Namespace):
     return Orbital.from_spec(args.spec, Z=args.Z, real=args.real, mass_ratio=ratio)
 
 
+def _set_orbitals(args: argparse.Namespace):
+    """Return the members of a hybrid set named without an index (``2sp3``), or None."""
+    from argparse import Namespace
+
+    from orbviz.hybrids import hybrid_set
+
+    members = hybrid_set(args.spec)
+    if members is None:
+        return None
+    return [_orbital(Namespace(**{**vars(args), "spec": member})) for member in members]
+
+
 def _cmd_info(args: argparse.Namespace) -> int:
     from orbviz.summary import format_summary, summarise
 
@@ -219,17 +231,10 @@ def _cmd_render(args: argparse.Namespace) -> int:
         extent=args.extent,
         colors=parse_colors(args.colors) if args.colors else DEFAULT_PAIR,
     ).checked()
-    from orbviz.hybrids import hybrid_set
-
-    members = hybrid_set(args.spec)
-    if members is not None:  # a whole hybrid set in one figure
+    orbitals = _set_orbitals(args)
+    if orbitals:  # a whole hybrid set in one figure
         from orbviz.render import render_png, set_figure
 
-        orbitals = []
-        for member in members:
-            args.spec, keep = member, args.spec
-            orbitals.append(_orbital(args))
-            args.spec = keep
         fig = set_figure(orbitals, fraction=args.fraction, grid=args.grid, options=options)
         render_png(fig, out)
         print(f"wrote {out}: the {len(orbitals)} {args.spec} hybrids in one figure")
@@ -274,7 +279,7 @@ def _cmd_model(args: argparse.Namespace) -> int:
     if args.report:
         check_output(args.report, suffixes={".json": None})
     colors = parse_colors(args.colors) if args.colors else DEFAULT_PAIR
-    orbital = _orbital(args)
+    orbital = _set_orbitals(args) or _orbital(args)  # a hybrid set (2sp3) makes one model
     from orbviz.model import build_model
 
     model = build_model(
@@ -311,7 +316,7 @@ def _cmd_model(args: argparse.Namespace) -> int:
         written = write_stl(model.bodies("solid"), out, scale=1.0, units="mm")
     facts = model.facts()
     report = {
-        "spec": orbital.spec,
+        "spec": args.spec,
         "size_mm": args.size,
         "rod_mm": model.rod_mm,
         "mm_per_bohr": model.mm_per_bohr,

@@ -260,7 +260,12 @@ def build_model(
             else f"use --rod {min_feature:g}"
         )
         raise ModelError(f"rod {rod_mm:.2g} mm < {min_feature:g} mm at --size {size:g}: {fix}")
-    mesh = build_mesh(orbital, fraction=fraction, grid=grid, colors=colors)
+    members = orbital if isinstance(orbital, (list, tuple)) else None
+    mesh = (
+        _set_mesh(members, fraction, grid)
+        if members
+        else build_mesh(orbital, fraction=fraction, grid=grid, colors=colors)
+    )
     vertices = np.vstack([b.vertices for b in mesh.bodies])
     scale = size / float(np.ptp(vertices, axis=0).max())  # provisional mm per bohr
     for _ in range(2):  # the stand changes the bounding box: rescale once more
@@ -277,12 +282,38 @@ def build_model(
         "surface": SUPPORT_RGBA,
         "support": SUPPORT_RGBA,
     }
+    if members:
+        from orbviz.render import SET_PALETTE
+
+        for k in range(len(members)):
+            colours[f"lobe-{k + 1}"] = (*SET_PALETTE[k % len(SET_PALETTE)], 255)
     result = PrintModel(solid, parts, colours, scale * factor, rod_mm * factor)
     result.checks = _checks(result, mesh, min_feature, stand, cut, size)
     errors = [c.message for c in result.checks if c.level == "error"]
     if errors:
         raise ModelError("; ".join(errors))
     return result
+
+
+def _set_mesh(orbitals, fraction: float, grid: int) -> OrbitalMesh:
+    """Mesh a whole set (e.g. the sp3 hybrids): each member's large lobe as one body.
+
+    The members share one box; each keeps only its positive body (its large lobe). The small
+    lobes would overlap the others' and are left out of a printed set.
+    """
+    from orbviz.grid import box_half_width
+    from orbviz.isovalue import enclosing_isovalue
+
+    isos = [enclosing_isovalue(o, fraction=fraction) for o in orbitals]
+    width = max(box_half_width(o, i, grid) for o, i in zip(orbitals, isos, strict=True))
+    bodies = []
+    for k, (o, i) in enumerate(zip(orbitals, isos, strict=True)):
+        mesh = build_mesh(o, fraction=fraction, grid=grid, half_width=width, level=i)
+        (lobe,) = [b for b in mesh.bodies if b.name == "positive"]
+        bodies.append(
+            Body(f"lobe-{k + 1}", lobe.vertices, lobe.faces, lobe.normals, lobe.phase, lobe.colors)
+        )
+    return OrbitalMesh(bodies, isos[0], None)
 
 
 def _bbox(solid):
@@ -322,8 +353,10 @@ def _assemble(mesh: OrbitalMesh, scale: float, rod_mm: float, stand: bool, cut, 
         support = support - box
     solid = _union([*bodies.values(), support])
     parts = {"support": support}
-    for name, body in bodies.items():
-        parts[name] = body - support
+    taken = support
+    for name, body in bodies.items():  # disjoint parts: each less everything taken before it
+        parts[name] = body - taken
+        taken = taken + body
     return {"solid": solid, "parts": parts}
 
 
@@ -359,7 +392,8 @@ def _checks(
                 f"{size:g}: use --size >= {need} or --rod {min_feature:g}",
             )
         )
-    for name, share in _thin_share(mesh, model.mm_per_bohr, min_feature).items():
+    thin = _thin_share(mesh, model.mm_per_bohr, min_feature) if mesh.grid is not None else {}
+    for name, share in thin.items():
         if share > 0.02:
             checks.append(
                 Check(

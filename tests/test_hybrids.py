@@ -153,3 +153,17 @@ def test_whole_set_in_one_figure(tmp_path, capsys):
     for rgb in SET_PALETTE[:4]:
         target = np.array(rgb, dtype=float) / np.linalg.norm(rgb)
         assert np.mean((unit @ target > 0.99) & (img.sum(axis=2) > 60)) > 0.005
+
+
+def test_whole_set_as_one_model_with_disjoint_colour_parts(tmp_path, capsys):
+    from orbviz.checks import mesh_facts
+    from orbviz.model import _arrays, build_model
+    from orbviz.orbital import Orbital
+
+    orbitals = [Orbital.from_spec(f"2sp3[{k}]") for k in range(1, 5)]
+    model = build_model(orbitals, size=50.0, fraction=0.5, grid=64)
+    facts = model.facts()
+    assert facts.watertight and facts.solids == 1
+    assert sorted(model.parts) == ["lobe-1", "lobe-2", "lobe-3", "lobe-4", "support"]
+    volumes = [mesh_facts(*_arrays(p)).volume for p in model.parts.values()]
+    assert sum(volumes) == pytest.approx(facts.volume, rel=1e-6)  # disjoint: volumes add up
