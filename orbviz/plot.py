@@ -177,13 +177,13 @@ def radial_figure(orbital: Orbital, /, *, title: str | None = None):
     from matplotlib.figure import Figure
 
     from orbviz.grid import radial_quantile
-    from orbviz.summary import _mean_radius, _most_probable_radius
+    from orbviz.summary import mean_radius, most_probable_radius_of
 
     r_max = radial_quantile(orbital, 0.9995)
     r = np.linspace(0.0, r_max, 4001)
     p = orbital.radial_distribution(r)
     data = RadialData(
-        r, p, _node_radii(orbital), _mean_radius(orbital), _most_probable_radius(orbital)
+        r, p, _node_radii(orbital), mean_radius(orbital), most_probable_radius_of(orbital)
     )
 
     fig = Figure(figsize=(6.4, 4.0), layout="constrained")

@@ -15,7 +15,14 @@ from orbviz.radial import (
     most_probable_radius,
 )
 
-__all__ = ["format_summary", "hartree_in_ev", "radial_matrix_element", "summarise"]
+__all__ = [
+    "format_summary",
+    "hartree_in_ev",
+    "mean_radius",
+    "most_probable_radius_of",
+    "radial_matrix_element",
+    "summarise",
+]
 
 
 def hartree_in_ev() -> float:
@@ -49,7 +56,7 @@ def _numeric_element(orbital: Orbital, n1: int, n2: int, l: int, power: int) -> 
     return float(h * np.sum(s.R * orbital.radial(n2, l, s.r) * s.r ** (3 + power)))
 
 
-def _mean_radius(orbital: Orbital) -> float:
+def mean_radius(orbital: Orbital) -> float:
     """<r>, with cross terms between shells of equal (l, m) (angular parts are orthonormal)."""
     Z = orbital.length_charge
     total = 0.0
@@ -66,7 +73,7 @@ def _mean_radius(orbital: Orbital) -> float:
     return total
 
 
-def _most_probable_radius(orbital: Orbital) -> float:
+def most_probable_radius_of(orbital: Orbital) -> float:
     """Global maximum of r^2 sum_(l,m) |sum_n b_nlm R_nl(r)|^2, refined by successive zooms."""
     if len(orbital.shells) == 1 and orbital.potential is None:
         ((n, l),) = orbital.shells
@@ -136,8 +143,8 @@ def summarise(orbital: Orbital, /, *, fraction: float = DEFAULTS.fraction) -> di
         "radial_nodes": n_l[0] - n_l[1] - 1 if n_l else None,
         "angular_nodes": state.l if state else None,
         "radial_node_radii_bohr": orbital.node_radii(*n_l).tolist() if n_l else None,
-        "mean_radius_bohr": _mean_radius(orbital),
-        "most_probable_radius_bohr": _most_probable_radius(orbital),
+        "mean_radius_bohr": mean_radius(orbital),
+        "most_probable_radius_bohr": most_probable_radius_of(orbital),
         "fraction": iso.fraction,
         "isovalue": iso.level,
         "enclosed_fraction": iso.enclosed_fraction,
