@@ -16,6 +16,7 @@ float64 blocks that stay in cache and stores float32 when asked.
 from __future__ import annotations
 
 import math
+import re
 from collections import defaultdict
 from dataclasses import dataclass, field
 
@@ -192,6 +193,13 @@ class Field:
 
 def field_of(orbital: Orbital, /) -> Field:
     """Build the contoured field of an orbital (see the module docstring)."""
+    if getattr(orbital, "general", False):  # two centres: shift each field along z
+        half = orbital.R / 2
+        parts = []
+        for part, shift, weight in ((orbital.a, half, 1.0), (orbital.b, -half, orbital.sign)):
+            text = re.sub(r"\bz\b", f"(z + {shift!r})", field_of(part).expression)
+            parts.append(f"{weight * orbital.norm!r}*({text})")
+        return Field("signed", " + ".join(parts), orbital)
     Z = orbital.length_charge
     state = orbital.eigenstate
     tables: dict[str, tuple[np.ndarray, np.ndarray]] = {}
@@ -229,6 +237,6 @@ def field_of(orbital: Orbital, /) -> Field:
         poly = _real_solid_poly(l, m)
         real_part[(n, l)] = _add(real_part.get((n, l), {}), poly, c.real)
         imag_part[(n, l)] = _add(imag_part.get((n, l), {}), poly, c.imag)
-    re = " + ".join(f"{radial(n, l)}*{_poly_expr(p)}" for (n, l), p in real_part.items())
-    im = " + ".join(f"{radial(n, l)}*{_poly_expr(p)}" for (n, l), p in imag_part.items())
-    return Field("modulus", f"sqrt(({re})**2 + ({im})**2)", orbital, tables)
+    real_text = " + ".join(f"{radial(n, l)}*{_poly_expr(p)}" for (n, l), p in real_part.items())
+    imag_text = " + ".join(f"{radial(n, l)}*{_poly_expr(p)}" for (n, l), p in imag_part.items())
+    return Field("modulus", f"sqrt(({real_text})**2 + ({imag_text})**2)", orbital, tables)

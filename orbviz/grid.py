@@ -97,7 +97,12 @@ def box_half_width(orbital: Orbital, iso: Isovalue, points: int) -> float:
     The cube contains the sphere of radius half_width, so the radial quantile suffices for the
     coverage; the surface, which reaches ``iso.max_radius``, keeps three cells clear of the faces.
     """
-    coverage = radial_quantile(orbital, DEFAULTS.box_coverage)
+    if getattr(orbital, "general", False):  # two centres: each orbital's coverage, off centre
+        coverage = orbital.R / 2 + max(
+            radial_quantile(o, DEFAULTS.box_coverage) for o in (orbital.a, orbital.b)
+        )
+    else:
+        coverage = radial_quantile(orbital, DEFAULTS.box_coverage)
     cells = points - 1
     clear = iso.max_radius * cells / (cells - 2 * _MARGIN_CELLS)
     return max(coverage, clear)

@@ -251,15 +251,17 @@ class _Rays:
 
     def __init__(self, orbital: Orbital, refine: int) -> None:
         step = DEFAULTS.log_step / refine
-        shells = orbital.shells
+        general = getattr(orbital, "general", False)  # sampled as a whole (two centres)
+        parts = [orbital.a, orbital.b] if general else [orbital]
+        shells = [s for o in parts for s in o.shells]
         n_top = max(n for n, _ in shells)
-        l_top = max(l for _, l in shells)
-        r_max = max(orbital.radial_extent(n, l) for n, l in shells)
+        l_top = max(l for _, l in shells) + (2 if general else 0)
+        r_max = orbital.extent() if general else max(orbital.radial_extent(n, l) for n, l in shells)
         u, du = _midpoints((300 + 100 * n_top) * refine, 0.0, 1.0)
         self.radii = r = r_max * u * u
         dr_mass = r * r * 2.0 * r_max * u * du
-        radial = {(n, l): orbital.radial(n, l, r) for n, l in shells}
-        axial = all(m == 0 for (_, _, m), _ in orbital.basis)
+        radial = {} if general else {(n, l): orbital.radial(n, l, r) for n, l in shells}
+        axial = all(m == 0 for o in parts for (_, _, m), _ in o.basis)
         polar = DEFAULTS.ray_points * (l_top + 1) * refine * (16 if axial else 1)
         t, dt = _midpoints(polar, -1.0, 1.0)
         if axial:
@@ -268,18 +270,28 @@ class _Rays:
             a, da = _midpoints(2 * DEFAULTS.ray_points * (l_top + 1) * refine, 0.0, 2 * math.pi)
         cell = dr_mass * dt * da
         # |psi| <= sum over shells of max|R| * sum_m |b_m| max|S_lm|, max|S_lm| <= sqrt((2l+1)/2pi)
-        bound = sum(
-            np.abs(radial[(n, l)]).max() * abs(c) * math.sqrt((2 * l + 1) / (2 * math.pi))
-            for (n, l, _), c in orbital.basis
-        )
+        if general:  # |psi| <= N (max|phi_a| + max|phi_b|), each bounded as below
+            bound = orbital.norm * sum(
+                np.abs(o.radial(n, l, r)).max() * math.sqrt((2 * l + 1) / (2 * math.pi))
+                for o in parts
+                for (n, l) in o.shells
+            )
+        else:
+            bound = sum(
+                np.abs(radial[(n, l)]).max() * abs(c) * math.sqrt((2 * l + 1) / (2 * math.pi))
+                for (n, l, _), c in orbital.basis
+            )
         self.table = _LogMass(2.0 * math.log(bound) + 1.0, step, span=_SPAN + 20.0)
         self.ring_max = np.empty((t.size, r.size))
         block = max(1, DEFAULTS.ray_block // (a.size * r.size))
         for first in range(0, t.size, block):  # blocks of polar rings, with a one-ring halo
             lo, hi = max(first - 1, 0), min(first + block + 1, t.size)
             x, y, z = _unit(np.repeat(t[lo:hi], a.size), np.tile(a, hi - lo))
-            angular = orbital.shell_angular(x, y, z)
-            psi = sum(np.outer(ang, radial[key]) for key, ang in angular.items())
+            if general:
+                psi = orbital.psi(np.outer(x, r), np.outer(y, r), np.outer(z, r), dtype=np.float64)
+            else:
+                angular = orbital.shell_angular(x, y, z)
+                psi = sum(np.outer(ang, radial[key]) for key, ang in angular.items())
             dens = (np.abs(psi) ** 2 if not orbital.is_real else psi * psi).reshape(
                 hi - lo, a.size, r.size
             )
@@ -303,7 +315,9 @@ class _Rays:
 
 
 def _integrator(orbital: Orbital, refine: int) -> _Shell | _Rays:
-    return _Shell(orbital, refine) if len(orbital.shells) == 1 else _Rays(orbital, refine)
+    if getattr(orbital, "general", False) or len(orbital.shells) != 1:
+        return _Rays(orbital, refine)
+    return _Shell(orbital, refine)
 
 
 def check_fraction(fraction: float) -> float:
@@ -361,7 +375,7 @@ def enclosing_isovalue(orbital: Orbital, /, *, fraction: float = DEFAULTS.fracti
     probability, of the check under 1e-5, against brute-force sums).
     """
     fraction = check_fraction(fraction)
-    if len(orbital.shells) == 1:
+    if not getattr(orbital, "general", False) and len(orbital.shells) == 1:
         solve, check = _Shell(orbital, 1), _Shell(orbital, 2)
         level = math.exp(solve.table.level_above(fraction))
         achieved = float(check.table.above(np.array([math.log(level)]))[0])

@@ -129,6 +129,13 @@ class Orbital:
         potential : orbviz.potentials.Potential, optional
             Solve the radial functions numerically in this potential instead of -Z/r.
         """
+        if isinstance(spec, str) and spec.lstrip().lower().startswith("bond"):
+            from orbviz.bond import parse_bond
+
+            bond = parse_bond(spec, Z=Z)
+            if bond is None:
+                raise SpecError(f"bond needs the form bond(1s,1s,R=2.0,+), got {spec!r}")
+            return bond
         prefix = _ELEMENT_PREFIX.match(spec) if isinstance(spec, str) else None
         shorthand = []
         if prefix:  # with an element, a bare shell (C:2p, Fe:3d) means its m = 0 member

@@ -288,6 +288,8 @@ def _node_overlays(fig: Figure, radius: float) -> None:
     import pyvista
 
     orbital = fig.mesh.grid.field.orbital
+    if getattr(orbital, "general", False):
+        return  # two-centre shapes: no single-centre nodal surfaces to draw
     plotter = fig.plotter
     style = dict(color=(0.45, 0.45, 0.5), opacity=0.22, smooth_shading=True)
     if len(orbital.shells) == 1:

@@ -116,6 +116,8 @@ def summarise(orbital: Orbital, /, *, fraction: float = DEFAULTS.fraction) -> di
         ``enclosed_fraction``, and ``spec``, ``label``, ``mass_ratio``, ``reduced_mass``,
         ``surface_max_radius_bohr``, ``isovalue_method``, ``notes``.
     """
+    if getattr(orbital, "general", False):
+        return _bond_summary(orbital, fraction)
     state = orbital.eigenstate
     single_shell = len(orbital.shells) == 1
     n_l = orbital.shells[0] if single_shell else None
@@ -154,8 +156,58 @@ def summarise(orbital: Orbital, /, *, fraction: float = DEFAULTS.fraction) -> di
     }
 
 
+def _bond_summary(bond, fraction: float) -> dict[str, Any]:
+    """Summarise a two-centre combination: no energy (an unoptimised LCAO has none)."""
+    iso = enclosing_isovalue(bond, fraction=fraction)
+    keys = [
+        "n",
+        "l",
+        "m",
+        "energy_hartree",
+        "energy_ev",
+        "degeneracy",
+        "radial_nodes",
+        "angular_nodes",
+        "radial_node_radii_bohr",
+        "mean_radius_bohr",
+        "most_probable_radius_bohr",
+        "element",
+        "potential",
+    ]
+    return {
+        **dict.fromkeys(keys),
+        "spec": bond.spec,
+        "label": bond.label,
+        "Z": bond.Z,
+        "form": "real",
+        "bond_distance_bohr": bond.R,
+        "overlap": bond.S,
+        "normalisation": bond.norm,
+        "reduced_mass": False,
+        "mass_ratio": 1.0,
+        "fraction": iso.fraction,
+        "isovalue": iso.level,
+        "enclosed_fraction": iso.enclosed_fraction,
+        "isovalue_method": iso.method,
+        "surface_max_radius_bohr": iso.max_radius,
+        "notes": list(bond.notes),
+    }
+
+
 def format_summary(info: dict[str, Any]) -> str:
     """Readable multi-line text for a :func:`summarise` result."""
+    if "overlap" in info:
+        return "\n".join(
+            [
+                f"combination   {info['spec']}: nuclei at z = -+"
+                f"{info['bond_distance_bohr'] / 2:g} bohr",
+                f"overlap       S = {info['overlap']:.8f}; "
+                f"normalisation N = {info['normalisation']:.8f}",
+                f"isovalue      |psi|^2 = {info['isovalue']:.6e} bohr^-3 encloses "
+                f"{100 * info['enclosed_fraction']:.4f}% (asked {100 * info['fraction']:g}%)",
+                *(f"note          {note}" for note in info["notes"]),
+            ]
+        )
     lines = [f"orbital       {info['label']}   (spec {info['spec']!r})"]
     if info["n"] is not None:
         kind = "real combination" if info["form"] == "real" else "complex, eigenstate of Lz"
