@@ -133,6 +133,8 @@ def write_animation(animation: Animation, path: str | os.PathLike, *, seconds: f
     path = Path(path)
     if path.suffix.lower() in (".glb", ".gltf"):
         return write_gltf_animation(animation, path, seconds=seconds)
+    if path.suffix.lower() == ".mp4":
+        return _write_mp4(animation, path, seconds=seconds)
     pictures = [Image.fromarray(img, "RGBA").convert("RGB") for img in animation.images]
     if path.suffix.lower() == ".gif":
         duration = max(20, int(1000 * seconds / len(pictures)))
@@ -148,8 +150,7 @@ def write_animation(animation: Animation, path: str | os.PathLike, *, seconds: f
         return [path]
     if path.suffix:
         raise OutputError(
-            f"cannot write {str(path)!r}: animations go to .gif or a folder "
-            "(an MP4 encoder is not part of orbviz)"
+            f"cannot write {str(path)!r}: animations go to .gif, .mp4, .glb or a folder"
         )
     path.mkdir(parents=True, exist_ok=True)
     targets = [path / f"frame_{k:03d}.png" for k in range(len(pictures))]
@@ -240,3 +241,34 @@ def write_gltf_animation(
             temp.write_bytes(data)
         return [path]
     raise OutputError("animated glTF is written as .glb (one file); use a .glb name")
+
+
+def _write_mp4(animation: Animation, path: Path, *, seconds: float) -> list[Path]:
+    """H.264 MP4 through imageio's ffmpeg (the binary ships in the imageio-ffmpeg wheel).
+
+    ffmpeg takes the container from the file name, so the temporary file keeps the .mp4
+    suffix; it is renamed into place only when complete.
+    """
+    import tempfile
+
+    import imageio.v2 as imageio
+
+    fps = max(1.0, len(animation.images) / seconds)
+    handle, name = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".mp4", dir=path.parent)
+    os.close(handle)
+    temp = Path(name)
+    try:
+        writer = imageio.get_writer(
+            temp, fps=fps, codec="libx264", quality=8, macro_block_size=2, ffmpeg_log_level="error"
+        )
+        for img in animation.images:
+            rgb = img[..., :3]
+            h, w = rgb.shape[:2]
+            writer.append_data(np.pad(rgb, ((0, h % 2), (0, w % 2), (0, 0)), mode="edge"))
+        writer.close()
+        os.chmod(temp, 0o644)
+        os.replace(temp, path)
+    except BaseException:
+        temp.unlink(missing_ok=True)
+        raise
+    return [path]

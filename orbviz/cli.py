@@ -417,12 +417,11 @@ def _cmd_animate(args: argparse.Namespace) -> int:
     from pathlib import Path
 
     out = Path(args.output)
-    if out.suffix.lower() not in ("", ".gif", ".glb"):
+    if out.suffix.lower() not in ("", ".gif", ".glb", ".mp4"):
         from orbviz.errors import OutputError
 
         raise OutputError(
-            f"cannot write {args.output!r}: animations go to .gif or a folder "
-            "(an MP4 encoder is not part of orbviz)"
+            f"cannot write {args.output!r}: animations go to .gif, .mp4, .glb or a folder"
         )
     parent = out.parent if out.suffix else out.resolve().parent
     if not parent.is_dir():
@@ -632,7 +631,7 @@ def _build_parser() -> _Parser:
         "of PNG frames. A superposition of degenerate states does not move and is refused.",
     )
     _add_orbital_options(animate)
-    animate.add_argument("-o", "--output", required=True, metavar="FILE.gif|FILE.glb|DIR")
+    animate.add_argument("-o", "--output", required=True, metavar="FILE.gif|FILE.mp4|FILE.glb|DIR")
     animate.add_argument("--frames", type=_positive_int("frames"), default=24)
     animate.add_argument("--periods", type=_finite("periods"), default=1.0)
     animate.add_argument("--grid", type=_positive_int("grid"), default=96)

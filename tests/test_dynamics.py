@@ -120,8 +120,36 @@ def test_animate_cli_gif(tmp_path, capsys):
     with Image.open(out) as image:
         assert image.n_frames == 4
     assert "T = 0.4053 fs" in capsys.readouterr().out
-    assert main(["animate", "1s+2pz", "-o", str(tmp_path / "beat.mp4")]) == 2
-    assert "MP4" in capsys.readouterr().err
+    assert main(["animate", "1s+2pz", "-o", str(tmp_path / "beat.avi")]) == 2
+    assert ".mp4" in capsys.readouterr().err and not (tmp_path / "beat.avi").exists()
+
+
+def test_animate_cli_mp4(tmp_path, capsys):
+    import imageio.v2 as imageio  # an independent reader, through ffmpeg
+
+    out = tmp_path / "beat.mp4"
+    assert (
+        main(
+            [
+                "animate",
+                "1s+2pz",
+                "--frames",
+                "5",
+                "--grid",
+                "32",
+                "--size",
+                "161x121",
+                "-o",
+                str(out),
+            ]
+        )
+        == 0
+    )
+    reader = imageio.get_reader(out)
+    assert reader.count_frames() == 5
+    assert reader.get_meta_data()["size"] == (162, 122)  # padded to even sides for H.264
+    reader.close()
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["beat.mp4"]
 
 
 def test_animated_glb_passes_the_khronos_validator(tmp_path):
