@@ -18,6 +18,7 @@ from typing import Any
 
 from orbviz import __version__
 from orbviz._defaults import DEFAULTS
+from orbviz.angular import LABELS
 from orbviz.errors import OrbvizError
 
 __all__ = ["OUTPUTS", "Item", "SceneError", "load_scene", "parse_scene"]
@@ -50,13 +51,6 @@ _COMMON_KEYS = {
     "colors": str,
     "potential": str,
     "atom": str,
-}
-_LETTERS = "spdf"
-_REAL_LABELS = {
-    0: ["s"],
-    1: ["px", "py", "pz"],
-    2: ["dz2", "dxz", "dyz", "dx2-y2", "dxy"],
-    3: ["fz3", "fxz2", "fyz2", "fz(x2-y2)", "fxyz", "fx(x2-3y2)", "fy(3x2-y2)"],
 }
 
 
@@ -172,8 +166,9 @@ def _slug(spec: str, Z: float) -> str:
 def _shell_specs(n: int) -> list[str]:
     specs = []
     for l in range(n):
-        if l in _REAL_LABELS:
-            specs += [f"{n}{label}" for label in _REAL_LABELS[l]]
+        labels = [name for name, (ll, _) in LABELS.items() if ll == l]  # the real labels of l
+        if labels:
+            specs += [f"{n}{label}" for label in labels]
         else:  # no labels beyond f: real combinations by quantum numbers
             specs += [f"{n},{l},{m}" for m in range(-l, l + 1)]
     return specs

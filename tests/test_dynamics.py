@@ -96,27 +96,29 @@ def test_degenerate_superposition_is_refused(capsys):
     assert "does not move" in err and err.count("\n") == 1
 
 
+def _animate(out, *, frames: int, size: str) -> int:
+    """orbviz animate of 1s+2pz at a small grid, through the CLI in process."""
+    return main(
+        [
+            "animate",
+            "1s+2pz",
+            "--frames",
+            str(frames),
+            "--grid",
+            "32",
+            "--size",
+            size,
+            "-o",
+            str(out),
+        ]
+    )
+
+
 def test_animate_cli_gif(tmp_path, capsys):
     from PIL import Image
 
     out = tmp_path / "beat.gif"
-    assert (
-        main(
-            [
-                "animate",
-                "1s+2pz",
-                "--frames",
-                "4",
-                "--grid",
-                "32",
-                "--size",
-                "160x120",
-                "-o",
-                str(out),
-            ]
-        )
-        == 0
-    )
+    assert _animate(out, frames=4, size="160x120") == 0
     with Image.open(out) as image:
         assert image.n_frames == 4
     assert "T = 0.4053 fs" in capsys.readouterr().out
@@ -128,23 +130,7 @@ def test_animate_cli_mp4(tmp_path, capsys):
     import imageio.v2 as imageio  # an independent reader, through ffmpeg
 
     out = tmp_path / "beat.mp4"
-    assert (
-        main(
-            [
-                "animate",
-                "1s+2pz",
-                "--frames",
-                "5",
-                "--grid",
-                "32",
-                "--size",
-                "161x121",
-                "-o",
-                str(out),
-            ]
-        )
-        == 0
-    )
+    assert _animate(out, frames=5, size="161x121") == 0
     reader = imageio.get_reader(out)
     assert reader.count_frames() == 5
     assert reader.get_meta_data()["size"] == (162, 122)  # padded to even sides for H.264
@@ -159,23 +145,7 @@ def test_animated_glb_passes_the_khronos_validator(tmp_path):
     from tests.test_export import _validate
 
     out = tmp_path / "beat.glb"
-    assert (
-        main(
-            [
-                "animate",
-                "1s+2pz",
-                "--frames",
-                "5",
-                "--grid",
-                "32",
-                "--size",
-                "120x90",
-                "-o",
-                str(out),
-            ]
-        )
-        == 0
-    )
+    assert _animate(out, frames=5, size="120x90") == 0
     report = _validate(out)  # the Khronos reference validator
     assert report["issues"]["numErrors"] == 0
     assert report["info"]["animationCount"] == 1
