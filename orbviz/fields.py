@@ -102,6 +102,20 @@ def _poly_expr(poly: Poly) -> str:
     return "(" + " + ".join(terms) + ")" if terms else "0.0"
 
 
+def _parity(polys: list[Poly]) -> tuple[int, int, int]:
+    """Mirror parity of a sum of monomials on each axis: +1 even, -1 odd, 0 neither.
+
+    Coefficients below 1e-12 of the largest are rounding left by cancellation and do not count.
+    An empty sum is even.
+    """
+    top = max((abs(v) for p in polys for v in p.values()), default=0.0)
+    out = []
+    for axis in range(3):
+        seen = {k[axis] % 2 for p in polys for k, v in p.items() if abs(v) > 1e-12 * top}
+        out.append(0 if len(seen) > 1 else (-1 if seen == {1} else 1))
+    return out[0], out[1], out[2]
+
+
 def _radial_expr(n: int, l: int, Z: float) -> str:
     """R_nl / r^l as text: N (2Z/n)^l exp(-Zr/n) L_{n-l-1}^{2l+1}(2Zr/n), Horner form."""
     k, alpha = n - l - 1, 2 * l + 1
@@ -133,12 +147,16 @@ class Field:
     tables : dict
         For numerically solved radial functions: variable name -> (r, R / r^l) on a fine
         uniform grid, interpolated linearly; the grid is then evaluated slab by slab along z.
+    parity : (3,) tuple of int
+        How the field behaves under x -> -x, y -> -y, z -> -z: +1 even, -1 odd, 0 neither. A
+        sampler may evaluate one side of a mirror plane and copy the other.
     """
 
     kind: str
     expression: str
     orbital: Orbital
     tables: dict = field(default_factory=dict, compare=False, repr=False)
+    parity: tuple[int, int, int] = (0, 0, 0)
 
     @property
     def two_sided(self) -> bool:
@@ -199,7 +217,9 @@ def field_of(orbital: Orbital, /) -> Field:
         for part, shift, weight in ((orbital.a, half, 1.0), (orbital.b, -half, orbital.sign)):
             text = re.sub(r"\bz\b", f"(z + {shift!r})", field_of(part).expression)
             parts.append(f"{weight * orbital.norm!r}*({text})")
-        return Field("signed", " + ".join(parts), orbital)
+        pa, pb = field_of(orbital.a).parity, field_of(orbital.b).parity
+        parity = (pa[0] if pa[0] == pb[0] else 0, pa[1] if pa[1] == pb[1] else 0, 0)
+        return Field("signed", " + ".join(parts), orbital, parity=parity)
     Z = orbital.length_charge
     state = orbital.eigenstate
     tables: dict[str, tuple[np.ndarray, np.ndarray]] = {}
@@ -225,12 +245,14 @@ def field_of(orbital: Orbital, /) -> Field:
         for (n, l, m), c in orbital.basis:
             shells[(n, l)] = _add(shells.get((n, l), {}), _real_solid_poly(l, m), c.real)
         text = " + ".join(f"{radial(n, l)}*{_poly_expr(p)}" for (n, l), p in shells.items())
-        return Field("signed", text, orbital, tables)
+        return Field("signed", text, orbital, tables, _parity(list(shells.values())))
     if state is not None and state.form == "complex" and len(orbital.shells) == 1:
         n, l, m = state.n, state.l, state.m
-        theta = _poly_expr(_theta_poly(l, abs(m)))
+        theta_poly = _theta_poly(l, abs(m))
+        theta = _poly_expr(theta_poly)
         rho = f"(x**2 + y**2)**{abs(m) / 2!r}"
-        return Field("envelope", f"{radial(n, l)}*{theta}*{rho}", orbital, tables)
+        parity = (1, 1, _parity([theta_poly])[2])  # rho and theta's r^2 are even in x and y
+        return Field("envelope", f"{radial(n, l)}*{theta}*{rho}", orbital, tables, parity)
     real_part: dict[tuple[int, int], Poly] = {}
     imag_part: dict[tuple[int, int], Poly] = {}
     for (n, l, m), c in orbital.basis:
@@ -239,4 +261,8 @@ def field_of(orbital: Orbital, /) -> Field:
         imag_part[(n, l)] = _add(imag_part.get((n, l), {}), poly, c.imag)
     real_text = " + ".join(f"{radial(n, l)}*{_poly_expr(p)}" for (n, l), p in real_part.items())
     imag_text = " + ".join(f"{radial(n, l)}*{_poly_expr(p)}" for (n, l), p in imag_part.items())
-    return Field("modulus", f"sqrt(({real_text})**2 + ({imag_text})**2)", orbital, tables)
+    # |a + ib| is even on an axis where a and b each have a parity of their own
+    re_p, im_p = _parity(list(real_part.values())), _parity(list(imag_part.values()))
+    parity = tuple(int(bool(a and b)) for a, b in zip(re_p, im_p, strict=True))
+    text = f"sqrt(({real_text})**2 + ({imag_text})**2)"
+    return Field("modulus", text, orbital, tables, parity)

@@ -5,10 +5,19 @@ The box is sized from the radial cumulative probability, so that it holds at lea
 are float32, stored with x fastest (Fortran order, what VTK reads without a copy). They are
 written in place by one fused numexpr kernel, so peak memory is one field plus numexpr's small
 per-thread blocks.
+
+Two savings keep the work to what the surface needs, without changing a single contoured cell:
+
+* a surface reaches only ``Isovalue.max_radius``, so only the centred sub-cube (the *window*)
+  that holds it, plus a few clear cells, is sampled; every sample outside lies below the level,
+  and the window's own faces are checked to be below it before it is trusted;
+* a field that is even or odd under a mirror plane (every eigenstate on every axis) is evaluated
+  on one side of it and copied, with its sign, to the other: an eigenstate costs an eighth.
 """
 
 from __future__ import annotations
 
+import math
 import os
 from dataclasses import dataclass
 
@@ -20,33 +29,49 @@ from orbviz.fields import Field
 from orbviz.isovalue import Isovalue
 from orbviz.orbital import Orbital
 
-__all__ = ["Grid", "box_half_width", "check_grid_points", "estimate_bytes", "sample"]
+__all__ = [
+    "Grid",
+    "box_half_width",
+    "check_grid_points",
+    "estimate_bytes",
+    "sample",
+    "window_start",
+]
 
 _MARGIN_CELLS = 3  # free cells between the farthest surface point and the box face
+_WINDOW_CELLS = 2  # free cells between the farthest surface point and the window face
 
 
 @dataclass(frozen=True)
 class Grid:
     """Samples of a field on the cube [-half_width, half_width]^3.
 
+    The grid has N samples per axis, but only a centred sub-cube of them, the window, is held:
+    samples ``start`` to ``N - 1 - start`` on each axis. Every sample outside it lies below the
+    contoured level, so contouring the window gives the surface of the whole grid.
+
     Attributes
     ----------
-    values : (N, N, N) ndarray of float32, Fortran order
-        ``values[i, j, k]`` is the field at (x_i, y_j, z_k), x_i = -half_width + i * spacing.
+    values : (M, M, M) ndarray of float32, Fortran order
+        ``values[i, j, k]`` is the field at (x_s, y_t, z_u) with s = start + i and so on,
+        x_s = -half_width + s * spacing.
     half_width : float
         Half the box side, bohr.
     field : Field
         What was sampled.
+    start : int, default: 0
+        Index of the window's first sample on each axis (0: the window is the whole box).
     """
 
     values: np.ndarray
     half_width: float
     field: Field
+    start: int = 0
 
     @property
     def points(self) -> int:
-        """Samples per axis."""
-        return self.values.shape[0]
+        """Samples per axis of the whole box."""
+        return self.values.shape[0] + 2 * self.start
 
     @property
     def spacing(self) -> float:
@@ -55,19 +80,43 @@ class Grid:
 
     @property
     def origin(self) -> float:
-        """Coordinate of the first sample on every axis, bohr."""
+        """Coordinate of the first sample of the box on every axis, bohr."""
         return -self.half_width
 
+    @property
+    def window_origin(self) -> float:
+        """Coordinate of the first held sample (``values[0, 0, 0]``) on every axis, bohr."""
+        return -self.half_width + self.start * self.spacing
+
     def probability_sums(self, level: float) -> tuple[float, float]:
-        """Riemann sums of |psi|^2 dV over the grid: (above the level, in the whole box)."""
+        """Riemann sums of |psi|^2 dV over the grid: (above the level, in the whole box).
+
+        Samples outside the window are evaluated here again, one z slab at a time.
+        """
         import numexpr
 
         names = {"f": self.values, "lvl": np.float64(level)}
         cell = self.spacing**3
         # the 1.0 factors make numexpr accumulate in float64: float32 sums lose 3e-3 at 128^3
         above = numexpr.evaluate("sum(where(f * f >= lvl, 1.0 * f * f, 0.0))", local_dict=names)
-        total = numexpr.evaluate("sum(1.0 * f * f)", local_dict=names)
-        return float(above) * cell, float(total) * cell
+        total = float(numexpr.evaluate("sum(1.0 * f * f)", local_dict=names))
+        if self.start:
+            total += self._outside_sum()
+        return float(above) * cell, total * cell
+
+    def _outside_sum(self) -> float:
+        """Sum of f^2 over the samples outside the window, slab by slab (float64 sums)."""
+        n, lo, hi = self.points, self.start, self.points - self.start
+        axis = np.linspace(-self.half_width, self.half_width, n)
+        slab = np.empty((n, n, 1), dtype=np.float32, order="F")
+        total = 0.0
+        for k in range(n):
+            self.field(axis[:, None, None], axis[None, :, None], axis[k : k + 1], out=slab)
+            square = np.square(slab[:, :, 0], dtype=np.float64)
+            total += float(square.sum())
+            if lo <= k < hi:  # the window's part of this slab is counted already
+                total -= float(square[lo:hi, lo:hi].sum())
+        return total
 
 
 def check_grid_points(points: object) -> int:
@@ -132,8 +181,60 @@ def estimate_bytes(points: int) -> int:
     return field + surface
 
 
-def sample(field: Field, half_width: float, points: int) -> Grid:
+def window_start(points: int, half_width: float, reach: float) -> int:
+    """First index, on each axis, of the centred sub-cube holding every point within ``reach``.
+
+    The window keeps two clear samples beyond ``reach`` and at least four samples per axis.
+    """
+    spacing = 2.0 * half_width / (points - 1)
+    start = math.floor((half_width - reach) / spacing) - _WINDOW_CELLS
+    return max(0, min(start, (points - 4) // 2))
+
+
+def _fill(field: Field, axes: list[np.ndarray], out: np.ndarray) -> None:
+    """Evaluate ``field`` at the product of ``axes`` into ``out``, mirroring where it may.
+
+    On an axis where the field is even or odd and the (symmetric) samples allow, only the upper
+    half, which holds the middle sample of an odd count, is evaluated; the lower half is the
+    upper one reversed, times the parity.
+    """
+    upper = [slice(None)] * 3
+    for axis, parity in enumerate(field.parity):
+        coords = axes[axis]
+        if parity and np.allclose(coords, -coords[::-1], rtol=0, atol=1e-12 * abs(coords).max()):
+            upper[axis] = slice(len(coords) // 2, None)
+    x, y, z = (a[s] for a, s in zip(axes, upper, strict=True))
+    field(x[:, None, None], y[None, :, None], z[None, None, :], out=out[tuple(upper)])
+    for axis, cut in enumerate(upper):
+        if cut.start is None:
+            continue
+        m = out.shape[axis]
+        low = [slice(None)] * axis + [slice(0, m // 2)] + upper[axis + 1 :]  # only what is filled
+        high = [slice(None)] * axis + [slice(m - m // 2, None)] + upper[axis + 1 :]
+        mirrored = np.flip(out[tuple(high)], axis=axis)
+        if field.parity[axis] < 0:
+            np.negative(mirrored, out=out[tuple(low)])
+        else:
+            out[tuple(low)] = mirrored
+
+
+def sample(
+    field: Field, half_width: float, points: int, *, surface: Isovalue | None = None
+) -> Grid:
     """Sample ``field`` on an N^3 grid spanning [-half_width, half_width] on each axis.
+
+    Parameters
+    ----------
+    field : Field
+        What to sample.
+    half_width : float
+        Half the box side, bohr.
+    points : int
+        Samples per axis.
+    surface : Isovalue, optional
+        The level to be contoured. If given, only the window holding the surface it bounds is
+        sampled (see the module docstring); if any sample on the window's faces reaches the
+        level after all, the whole box is sampled instead.
 
     Raises
     ------
@@ -148,6 +249,20 @@ def sample(field: Field, half_width: float, points: int) -> Grid:
             f"{have / 2**30:.1f} GiB is available; use a smaller --grid"
         )
     axis = np.linspace(-half_width, half_width, points)
+    start = 0 if surface is None else window_start(points, half_width, surface.max_radius)
+    if start:
+        held = axis[start : points - start]
+        values = np.empty((held.size,) * 3, dtype=np.float32, order="F")
+        _fill(field, [held, held, held], values)
+        if _faces_clear(values, math.sqrt(surface.level)):
+            return Grid(values, float(half_width), field, start)
+        del values
     values = np.empty((points, points, points), dtype=np.float32, order="F")
-    field(axis[:, None, None], axis[None, :, None], axis[None, None, :], out=values)
+    _fill(field, [axis, axis, axis], values)
     return Grid(values, float(half_width), field)
+
+
+def _faces_clear(values: np.ndarray, threshold: float) -> bool:
+    """Tell whether every sample on the cube's six faces lies strictly below ``threshold``."""
+    faces = (values[[0, -1]], values[:, [0, -1]], values[:, :, [0, -1]])
+    return all(float(np.abs(face).max()) < threshold for face in faces)

@@ -192,7 +192,7 @@ def build_mesh(
             f"the box half-width {width:g} bohr does not hold the surface, which reaches "
             f"{iso.max_radius:.4g} bohr"
         )
-    samples = sample(field, width, grid)
+    samples = sample(field, width, grid, surface=iso)
     bodies = contour(samples, iso.level)
     if smoothing:
         bodies = [smooth(b, iterations=smoothing) for b in bodies]

@@ -78,10 +78,10 @@ def _flying_edges(grid: Grid, values: list[float]):
     vtkSMPTools().SetBackend("STDThread")
 
     image = vtkImageData()
-    n = grid.points
+    n = grid.values.shape[0]
     image.SetDimensions(n, n, n)
     image.SetSpacing(grid.spacing, grid.spacing, grid.spacing)
-    image.SetOrigin(grid.origin, grid.origin, grid.origin)
+    image.SetOrigin(grid.window_origin, grid.window_origin, grid.window_origin)
     flat = grid.values.reshape(-1, order="F")
     image.GetPointData().SetScalars(numpy_to_vtk(flat, deep=False))
     contour = vtkFlyingEdges3D()
@@ -101,20 +101,22 @@ def _flying_edges(grid: Grid, values: list[float]):
     return points, cells, scalars
 
 
-def _compact(vertices: np.ndarray, faces: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Drop degenerate faces (repeated vertex or zero area) and unused vertices."""
+def _compact(vertices: np.ndarray, faces: np.ndarray) -> tuple[np.ndarray, np.ndarray, float]:
+    """Drop degenerate faces (repeated vertex or zero area) and unused vertices.
+
+    Returns the vertices, the faces and the signed volume they enclose, sum a . (b x c) / 6,
+    computed as sum a . ((b - a) x (c - a)) / 6 from the cross products the areas need.
+    """
     a, b, c = faces.T
-    area2 = np.linalg.norm(np.cross(vertices[b] - vertices[a], vertices[c] - vertices[a]), axis=1)
-    faces = faces[(a != b) & (b != c) & (a != c) & (area2 > 0)]
+    pa = np.take(vertices, a, axis=0)
+    cross = np.cross(np.take(vertices, b, axis=0) - pa, np.take(vertices, c, axis=0) - pa)
+    keep = (a != b) & (b != c) & (a != c) & (np.einsum("ij,ij->i", cross, cross) > 0)
+    volume = float(np.einsum("ij,ij->", pa, cross) / 6.0)  # a dropped face adds 0: cross = 0
+    faces = faces[keep]
     used = np.zeros(len(vertices), dtype=bool)
     used[faces.ravel()] = True
     index = np.cumsum(used) - 1  # old vertex index -> new, without sorting
-    return vertices[used], index[faces]
-
-
-def _signed_volume(vertices: np.ndarray, faces: np.ndarray) -> float:
-    a, b, c = (vertices[faces[:, k]] for k in range(3))
-    return float(np.einsum("ij,ij->i", a, np.cross(b, c)).sum() / 6.0)
+    return vertices[used], index[faces], volume
 
 
 def contour(grid: Grid, level: float) -> list[Body]:
@@ -140,8 +142,8 @@ def contour(grid: Grid, level: float) -> list[Body]:
     for name, mask in groups:
         if not mask.any():
             continue
-        vertices, tri = _compact(points, faces[mask])
-        if _signed_volume(vertices, tri) < 0:
+        vertices, tri, volume = _compact(points, faces[mask])
+        if volume < 0:
             tri = tri[:, ::-1]
         bodies.append(Body("surface" if grid.field.kind != "signed" else name, vertices, tri))
     if grid.field.kind != "signed" and len(bodies) == 2:  # envelope: both signs form one surface
