@@ -25,7 +25,7 @@ from orbviz._defaults import DEFAULTS
 from orbviz.errors import ParameterError
 from orbviz.orbital import Orbital
 
-__all__ = ["Isovalue", "enclosed_probability", "enclosing_isovalue"]
+__all__ = ["Isovalue", "check_isovalue", "enclosed_probability", "enclosing_isovalue"]
 
 _SPAN = 90.0  # e-folds of density kept below the maximum; lower mass is pooled at the bottom
 
@@ -41,7 +41,8 @@ class Isovalue:
     fraction : float
         The probability asked for.
     enclosed_fraction : float
-        P(c) recomputed on a quadrature twice as fine: the probability the level achieves.
+        P(c) recomputed on a quadrature twice as fine: the probability the level achieves (NaN
+        if the level was found with ``check=False``; see :func:`check_isovalue`).
     max_radius : float
         Largest distance from the nucleus (bohr) at which |psi|^2 >= c.
     method : {"separable", "factorised", "rays"}
@@ -350,7 +351,9 @@ def enclosed_probability(orbital: Orbital, levels: np.ndarray | float, /) -> np.
     return _integrator(orbital, 1).table.above(np.log(levels))
 
 
-def enclosing_isovalue(orbital: Orbital, /, *, fraction: float = DEFAULTS.fraction) -> Isovalue:
+def enclosing_isovalue(
+    orbital: Orbital, /, *, fraction: float = DEFAULTS.fraction, check: bool = True
+) -> Isovalue:
     """Find the density level c whose region {|psi|^2 >= c} holds probability ``fraction``.
 
     Parameters
@@ -359,6 +362,10 @@ def enclosing_isovalue(orbital: Orbital, /, *, fraction: float = DEFAULTS.fracti
         The state.
     fraction : float, default: 0.9
         Probability to enclose, strictly between 0 and 1.
+    check : bool, default: True
+        Also estimate the probability the level achieves by a better quadrature. Without it
+        ``enclosed_fraction`` is NaN until :func:`check_isovalue` fills it in; a mesh needs only
+        the level and the reach, and skips the check unless a report asks for it.
 
     Returns
     -------
@@ -375,14 +382,42 @@ def enclosing_isovalue(orbital: Orbital, /, *, fraction: float = DEFAULTS.fracti
     probability, of the check under 1e-5, against brute-force sums).
     """
     fraction = check_fraction(fraction)
-    if not getattr(orbital, "general", False) and len(orbital.shells) == 1:
-        solve, check = _Shell(orbital, 1), _Shell(orbital, 2)
-        level = math.exp(solve.table.level_above(fraction))
-        achieved = float(check.table.above(np.array([math.log(level)]))[0])
-    else:
-        base, solve = _Rays(orbital, 1), _Rays(orbital, 2)
-        check = solve
-        level = math.exp(solve.table.level_above(fraction))
-        at = np.array([math.log(level)])
+    one_shell = not getattr(orbital, "general", False) and len(orbital.shells) == 1
+    solve = _Shell(orbital, 1) if one_shell else _Rays(orbital, 2)
+    level = math.exp(solve.table.level_above(fraction))
+    iso = Isovalue(level, fraction, math.nan, solve.max_radius(level), solve.method)
+    return _checked(orbital, iso, solve) if check else iso
+
+
+def check_isovalue(orbital: Orbital, iso: Isovalue, /) -> Isovalue:
+    """Fill in ``enclosed_fraction`` of a level found with ``check=False`` (else return it).
+
+    Parameters
+    ----------
+    orbital : Orbital
+        The state the level belongs to.
+    iso : Isovalue
+        Its level.
+
+    Returns
+    -------
+    Isovalue
+        The same level, with the better estimate of the probability it encloses.
+    """
+    if not math.isnan(iso.enclosed_fraction):
+        return iso
+    one_shell = not getattr(orbital, "general", False) and len(orbital.shells) == 1
+    return _checked(orbital, iso, None if one_shell else _Rays(orbital, 2))
+
+
+def _checked(orbital: Orbital, iso: Isovalue, solve: _Shell | _Rays | None) -> Isovalue:
+    """Check a level as :func:`enclosing_isovalue` does: a finer shell table, or Richardson."""
+    at = np.array([math.log(iso.level)])
+    if isinstance(solve, _Rays):
+        base = _Rays(orbital, 1)
         achieved = float((4.0 * solve.table.above(at)[0] - base.table.above(at)[0]) / 3.0)
-    return Isovalue(level, fraction, achieved, check.max_radius(level), solve.method)
+        check = solve
+    else:
+        check = _Shell(orbital, 2)
+        achieved = float(check.table.above(at)[0])
+    return Isovalue(iso.level, iso.fraction, achieved, check.max_radius(iso.level), iso.method)

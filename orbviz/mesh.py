@@ -14,7 +14,7 @@ from orbviz.colors import DEFAULT_PAIR
 from orbviz.errors import ParameterError
 from orbviz.fields import field_of
 from orbviz.grid import Grid, box_half_width, check_grid_points, sample
-from orbviz.isovalue import Isovalue, enclosing_isovalue
+from orbviz.isovalue import Isovalue, check_isovalue, enclosing_isovalue
 from orbviz.orbital import Orbital
 from orbviz.surface import Body, contour, finish_body
 
@@ -30,7 +30,7 @@ class OrbitalMesh:
     bodies : list of Body
         ``positive`` and ``negative`` for a real state, one ``surface`` for a complex one.
     isovalue : Isovalue
-        The level, from the grid-free quadrature.
+        The level, from the grid-free quadrature; :meth:`report` adds its check.
     grid : Grid
         The samples the surface was contoured from.
     """
@@ -59,6 +59,7 @@ class OrbitalMesh:
 
     def report(self) -> dict[str, Any]:
         """Numbers for ``--report``: level, grid fractions, counts, volume, area, watertightness."""
+        self.isovalue = check_isovalue(self.grid.field.orbital, self.isovalue)
         above, total = self.grid.probability_sums(self.isovalue.level)
         bodies = []
         for body in self.bodies:
@@ -184,7 +185,7 @@ def build_mesh(
         raise ParameterError(f"--faces must be an integer of at least 100, got {faces!r}")
     if smoothing < 0:
         raise ParameterError(f"smoothing iterations must be >= 0, got {smoothing}")
-    iso = enclosing_isovalue(orbital, fraction=fraction) if level is None else level
+    iso = enclosing_isovalue(orbital, fraction=fraction, check=False) if level is None else level
     field = field_of(orbital)
     width = box_half_width(orbital, iso, grid) if half_width is None else float(half_width)
     if not (math.isfinite(width) and width > iso.max_radius):

@@ -12,7 +12,7 @@ import pytest
 from scipy.optimize import brentq
 from scipy.special import sph_harm_y
 
-from orbviz.isovalue import enclosed_probability, enclosing_isovalue
+from orbviz.isovalue import check_isovalue, enclosed_probability, enclosing_isovalue
 from orbviz.orbital import Orbital
 from tests.conftest import (
     fine_axisymmetric,
@@ -120,3 +120,20 @@ def test_enclosed_probability_of_1s_closed_form():
     np.testing.assert_allclose(
         enclosed_probability(Orbital.from_spec("1s"), levels), expected, atol=2e-6
     )
+
+
+@pytest.mark.parametrize("spec", ["1s", "0.6*2s + 0.8*2pz"])
+def test_unchecked_level_then_checked_later(spec):
+    # a mesh solves without the check; check_isovalue adds it later, to the same standard:
+    # 1s against the closed form above, the superposition against the scipy fine-grid sum
+    orbital = Orbital.from_spec(spec)
+    quick = enclosing_isovalue(orbital, check=False)
+    assert math.isnan(quick.enclosed_fraction)
+    full = check_isovalue(orbital, quick)
+    assert full.level == quick.level
+    assert full.enclosed_fraction == pytest.approx(0.9, abs=1e-5 if spec == "1s" else 1e-4)
+    assert quick.max_radius == pytest.approx(full.max_radius, rel=1e-3)
+    if spec == "1s":
+        rho = -0.5 * math.log(quick.level * math.pi)
+        assert _p_1s(rho) == pytest.approx(0.9, abs=1e-5)
+        assert quick.max_radius == pytest.approx(rho, rel=1e-3)

@@ -182,6 +182,15 @@ def test_in_box_probability_and_clearance(meshes):
             assert np.abs(body.vertices).max() <= result.grid.half_width - 2 * result.grid.spacing
 
 
+def test_report_carries_the_checked_level_1s(meshes):
+    # the report's level check (a finer quadrature, added when the report is asked for) against
+    # the closed form P(r < R) = 1 - exp(-2R)(1 + 2R + 2R^2) at the level's radius (REFERENCES.md)
+    report = meshes["1s"].report()
+    radius = -0.5 * math.log(report["isovalue"] * math.pi)
+    closed = 1 - math.exp(-2 * radius) * (1 + 2 * radius + 2 * radius**2)
+    assert report["isovalue_enclosed_fraction"] == pytest.approx(closed, abs=1e-5)
+
+
 @pytest.mark.parametrize("spec", ["3dz2", "3s", "4,2,1"])
 def test_numpy_checks_agree_with_trimesh(meshes, spec):
     # orbviz.checks against trimesh's own volume, area, watertightness and split
