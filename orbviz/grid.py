@@ -8,9 +8,10 @@ per-thread blocks.
 
 Two savings keep the work to what the surface needs, without changing a single contoured cell:
 
-* a surface reaches only ``Isovalue.max_radius``, so only the centred sub-cube (the *window*)
-  that holds it, plus a few clear cells, is sampled; every sample outside lies below the level,
-  and the window's own faces are checked to be below it before it is trusted;
+* a surface reaches only ``Isovalue.axis_reach`` (or ``max_radius``) along each axis, so only
+  the centred box (the *window*) that holds it, plus a few clear cells, is sampled; every sample
+  outside lies below the level, and the window's own faces are checked to be below it before it
+  is trusted;
 * a field that is even or odd under a mirror plane (every eigenstate on every axis) is evaluated
   on one side of it and copied, with its sign, to the other: an eigenstate costs an eighth.
 """
@@ -46,32 +47,32 @@ _WINDOW_CELLS = 2  # free cells between the farthest surface point and the windo
 class Grid:
     """Samples of a field on the cube [-half_width, half_width]^3.
 
-    The grid has N samples per axis, but only a centred sub-cube of them, the window, is held:
-    samples ``start`` to ``N - 1 - start`` on each axis. Every sample outside it lies below the
-    contoured level, so contouring the window gives the surface of the whole grid.
+    The grid has N samples per axis, but only a centred box of them, the window, is held:
+    samples ``start[a]`` to ``N - 1 - start[a]`` on axis a. Every sample outside it lies below
+    the contoured level, so contouring the window gives the surface of the whole grid.
 
     Attributes
     ----------
-    values : (M, M, M) ndarray of float32, Fortran order
-        ``values[i, j, k]`` is the field at (x_s, y_t, z_u) with s = start + i and so on,
+    values : (Mx, My, Mz) ndarray of float32, Fortran order
+        ``values[i, j, k]`` is the field at (x_s, y_t, z_u) with s = start[0] + i and so on,
         x_s = -half_width + s * spacing.
     half_width : float
         Half the box side, bohr.
     field : Field
         What was sampled.
-    start : int, default: 0
-        Index of the window's first sample on each axis (0: the window is the whole box).
+    start : (3,) tuple of int, default: (0, 0, 0)
+        Index of the window's first sample on each axis (zeros: the window is the whole box).
     """
 
     values: np.ndarray
     half_width: float
     field: Field
-    start: int = 0
+    start: tuple[int, int, int] = (0, 0, 0)
 
     @property
     def points(self) -> int:
         """Samples per axis of the whole box."""
-        return self.values.shape[0] + 2 * self.start
+        return self.values.shape[0] + 2 * self.start[0]
 
     @property
     def spacing(self) -> float:
@@ -84,9 +85,10 @@ class Grid:
         return -self.half_width
 
     @property
-    def window_origin(self) -> float:
-        """Coordinate of the first held sample (``values[0, 0, 0]``) on every axis, bohr."""
-        return -self.half_width + self.start * self.spacing
+    def window_origin(self) -> tuple[float, float, float]:
+        """Coordinates of the first held sample, ``values[0, 0, 0]``, bohr."""
+        x, y, z = (-self.half_width + s * self.spacing for s in self.start)
+        return x, y, z
 
     def probability_sums(self, level: float) -> tuple[float, float]:
         """Riemann sums of |psi|^2 dV over the grid: (above the level, in the whole box).
@@ -100,13 +102,14 @@ class Grid:
         # the 1.0 factors make numexpr accumulate in float64: float32 sums lose 3e-3 at 128^3
         above = numexpr.evaluate("sum(where(f * f >= lvl, 1.0 * f * f, 0.0))", local_dict=names)
         total = float(numexpr.evaluate("sum(1.0 * f * f)", local_dict=names))
-        if self.start:
+        if any(self.start):
             total += self._outside_sum()
         return float(above) * cell, total * cell
 
     def _outside_sum(self) -> float:
         """Sum of f^2 over the samples outside the window, slab by slab (float64 sums)."""
-        n, lo, hi = self.points, self.start, self.points - self.start
+        n = self.points
+        (x0, y0, z0), (x1, y1, z1) = self.start, (n - s for s in self.start)
         axis = np.linspace(-self.half_width, self.half_width, n)
         slab = np.empty((n, n, 1), dtype=np.float32, order="F")
         total = 0.0
@@ -114,8 +117,8 @@ class Grid:
             self.field(axis[:, None, None], axis[None, :, None], axis[k : k + 1], out=slab)
             square = np.square(slab[:, :, 0], dtype=np.float64)
             total += float(square.sum())
-            if lo <= k < hi:  # the window's part of this slab is counted already
-                total -= float(square[lo:hi, lo:hi].sum())
+            if z0 <= k < z1:  # the window's part of this slab is counted already
+                total -= float(square[x0:x1, y0:y1].sum())
         return total
 
 
@@ -182,12 +185,13 @@ def estimate_bytes(points: int) -> int:
 
 
 def window_start(points: int, half_width: float, reach: float) -> int:
-    """First index, on each axis, of the centred sub-cube holding every point within ``reach``.
+    """First index on an axis of the centred window that holds every point within ``reach``.
 
-    The window keeps two clear samples beyond ``reach`` and at least four samples per axis.
+    The window keeps two clear samples, and half a percent of ``reach``, beyond it, and at
+    least four samples.
     """
     spacing = 2.0 * half_width / (points - 1)
-    start = math.floor((half_width - reach) / spacing) - _WINDOW_CELLS
+    start = math.floor((half_width - 1.005 * reach) / spacing) - _WINDOW_CELLS
     return max(0, min(start, (points - 4) // 2))
 
 
@@ -249,11 +253,15 @@ def sample(
             f"{have / 2**30:.1f} GiB is available; use a smaller --grid"
         )
     axis = np.linspace(-half_width, half_width, points)
-    start = 0 if surface is None else window_start(points, half_width, surface.max_radius)
-    if start:
-        held = axis[start : points - start]
-        values = np.empty((held.size,) * 3, dtype=np.float32, order="F")
-        _fill(field, [held, held, held], values)
+    start = (0, 0, 0)
+    if surface is not None:
+        reach = surface.axis_reach or (surface.max_radius,) * 3
+        sx, sy, sz = (window_start(points, half_width, r) for r in reach)
+        start = (sx, sy, sz)
+    if any(start):
+        held = [axis[s : points - s] for s in start]
+        values = np.empty([a.size for a in held], dtype=np.float32, order="F")
+        _fill(field, held, values)
         if _faces_clear(values, math.sqrt(surface.level)):
             return Grid(values, float(half_width), field, start)
         del values
@@ -263,6 +271,6 @@ def sample(
 
 
 def _faces_clear(values: np.ndarray, threshold: float) -> bool:
-    """Tell whether every sample on the cube's six faces lies strictly below ``threshold``."""
+    """Tell whether every sample on the box's six faces lies strictly below ``threshold``."""
     faces = (values[[0, -1]], values[:, [0, -1]], values[:, :, [0, -1]])
     return all(float(np.abs(face).max()) < threshold for face in faces)

@@ -28,6 +28,7 @@ from orbviz.orbital import Orbital
 __all__ = ["Isovalue", "check_isovalue", "enclosed_probability", "enclosing_isovalue"]
 
 _SPAN = 90.0  # e-folds of density kept below the maximum; lower mass is pooled at the bottom
+_REACH_POLAR, _REACH_AZIMUTH = 129, 256  # directions for the per-axis reach (axes included)
 
 
 @dataclass(frozen=True)
@@ -47,6 +48,9 @@ class Isovalue:
         Largest distance from the nucleus (bohr) at which |psi|^2 >= c.
     method : {"separable", "factorised", "rays"}
         Which quadrature was used.
+    axis_reach : (3,) tuple of float, optional
+        Largest |x|, |y| and |z| (bohr) at which |psi|^2 >= c, on a grid of directions that
+        holds the axes; None where only ``max_radius`` is known (it bounds all three).
     """
 
     level: float
@@ -54,6 +58,7 @@ class Isovalue:
     enclosed_fraction: float
     max_radius: float
     method: str
+    axis_reach: tuple[float, float, float] | None = None
 
 
 class _LogMass:
@@ -209,6 +214,7 @@ class _Shell:
         angular, self.max_angular, self.method = self._angular(orbital, n, l, refine, step)
         self.table = radial.convolve(angular)
         self.radii, self.radial_density = r, dens
+        self.orbital = orbital
 
     @staticmethod
     def _angular(orbital: Orbital, n: int, l: int, refine: int, step: float):
@@ -239,6 +245,29 @@ class _Shell:
     def max_radius(self, level: float) -> float:
         inside = self.radial_density * self.max_angular >= level
         return float(self.radii[inside].max()) if inside.any() else 0.0
+
+    def axis_reach(self, level: float) -> tuple[float, float, float]:
+        """Largest |x|, |y|, |z| of {|psi|^2 >= level}: per direction, the farthest radius.
+
+        The directions are uniform in polar angle and azimuth, both axes and the diagonals
+        among them, so lobes along the axes or between them are met exactly; elsewhere the
+        reach is short by at most ~(pi/64)^2/8 of the radius, which the sampling window's
+        clear cells cover.
+        """
+        polar = np.linspace(0.0, math.pi, _REACH_POLAR)
+        azimuth = np.linspace(0.0, 2 * math.pi, _REACH_AZIMUTH, endpoint=False)
+        ux = np.outer(np.sin(polar), np.cos(azimuth)).ravel()
+        uy = np.outer(np.sin(polar), np.sin(azimuth)).ravel()
+        uz = np.repeat(np.cos(polar), azimuth.size)
+        ((n, l),) = self.orbital.shells
+        angular = np.abs(self.orbital.shell_angular(ux, uy, uz)[(n, l)]) ** 2
+        # farthest radius whose density reaches t: the last index where the suffix max >= t
+        suffix = np.maximum.accumulate(self.radial_density[::-1])[::-1]
+        with np.errstate(divide="ignore"):
+            need = np.where(angular > 0, level / angular, np.inf)
+        count = np.searchsorted(-suffix, -need, side="right")
+        far = np.where(count > 0, self.radii[np.maximum(count - 1, 0)], 0.0)
+        return tuple(float(np.max(far * np.abs(u))) for u in (ux, uy, uz))
 
 
 class _Rays:
@@ -385,7 +414,8 @@ def enclosing_isovalue(
     one_shell = not getattr(orbital, "general", False) and len(orbital.shells) == 1
     solve = _Shell(orbital, 1) if one_shell else _Rays(orbital, 2)
     level = math.exp(solve.table.level_above(fraction))
-    iso = Isovalue(level, fraction, math.nan, solve.max_radius(level), solve.method)
+    reach = solve.axis_reach(level) if isinstance(solve, _Shell) else None
+    iso = Isovalue(level, fraction, math.nan, solve.max_radius(level), solve.method, reach)
     return _checked(orbital, iso, solve) if check else iso
 
 
@@ -420,4 +450,6 @@ def _checked(orbital: Orbital, iso: Isovalue, solve: _Shell | _Rays | None) -> I
     else:
         check = _Shell(orbital, 2)
         achieved = float(check.table.above(at)[0])
-    return Isovalue(iso.level, iso.fraction, achieved, check.max_radius(iso.level), iso.method)
+    return Isovalue(
+        iso.level, iso.fraction, achieved, check.max_radius(iso.level), iso.method, iso.axis_reach
+    )

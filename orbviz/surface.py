@@ -78,10 +78,9 @@ def _flying_edges(grid: Grid, values: list[float]):
     vtkSMPTools().SetBackend("STDThread")
 
     image = vtkImageData()
-    n = grid.values.shape[0]
-    image.SetDimensions(n, n, n)
+    image.SetDimensions(*grid.values.shape)
     image.SetSpacing(grid.spacing, grid.spacing, grid.spacing)
-    image.SetOrigin(grid.window_origin, grid.window_origin, grid.window_origin)
+    image.SetOrigin(*grid.window_origin)
     flat = grid.values.reshape(-1, order="F")
     image.GetPointData().SetScalars(numpy_to_vtk(flat, deep=False))
     contour = vtkFlyingEdges3D()

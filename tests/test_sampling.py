@@ -6,13 +6,14 @@ import math
 
 import numpy as np
 import pytest
+from scipy.optimize import brentq
 
 from orbviz.fields import field_of
 from orbviz.grid import box_half_width, sample
 from orbviz.isovalue import Isovalue, enclosing_isovalue
 from orbviz.mesh import build_mesh
 from orbviz.orbital import Orbital
-from tests.conftest import reference_psi
+from tests.conftest import reference_psi, reference_radial
 
 N = 64
 SPECS = [
@@ -43,6 +44,10 @@ def reference_field(orbital: Orbital, kind: str, x, y, z) -> np.ndarray:
     return np.abs(psi)
 
 
+def window(grid):
+    return tuple(slice(s, grid.points - s) for s in grid.start)
+
+
 def full_axes(grid):
     return np.meshgrid(
         *[np.linspace(-grid.half_width, grid.half_width, grid.points)] * 3, indexing="ij"
@@ -65,8 +70,7 @@ def sampled():
 @pytest.mark.parametrize("spec", SPECS)
 def test_window_holds_the_reference_field(sampled, spec):
     orbital, iso, grid, ref = sampled[spec]
-    lo, hi = grid.start, grid.points - grid.start
-    held = ref[lo:hi, lo:hi, lo:hi]
+    held = ref[window(grid)]
     # float32 samples of the scipy-built field (tests/conftest.py): 1e-5 of its largest value
     assert np.abs(grid.values - held).max() <= 1e-5 * np.abs(held).max()
 
@@ -75,16 +79,21 @@ def test_window_holds_the_reference_field(sampled, spec):
 def test_every_sample_outside_the_window_is_below_the_level(sampled, spec):
     orbital, iso, grid, ref = sampled[spec]
     outside = np.ones(ref.shape, dtype=bool)
-    lo, hi = grid.start, grid.points - grid.start
-    outside[lo:hi, lo:hi, lo:hi] = False
+    outside[window(grid)] = False
     # the scipy-built field outside the window never reaches sqrt(level): nothing is lost there
     assert np.abs(ref[outside]).max(initial=0.0) < math.sqrt(iso.level)
 
 
-def test_the_window_is_smaller_than_the_box_for_a_compact_surface(sampled):
-    # 3dz2 at 90%: the 99.9% box is 27.1 bohr, the surface reaches 19.0 (see `orbviz info`)
-    _, _, grid, _ = sampled["3dz2"]
-    assert 0 < grid.start < grid.points // 4
+def test_window_fits_the_reach_of_3dz2(sampled):
+    # on the z axis the 3dz2 surface ends where R_32(r)^2 Y_20(0)^2 = c (scipy's functions, root
+    # by brentq); the window holds that and ends within a few cells of it. The ring in the xy
+    # plane reaches less far, so the window is narrower along x and y.
+    orbital, iso, grid, _ = sampled["3dz2"]
+    y20 = math.sqrt(5 / (4 * math.pi))
+    r_z = brentq(lambda r: (reference_radial(3, 2, r) * y20) ** 2 - iso.level, 10.0, 40.0)
+    half_z = grid.half_width - grid.start[2] * grid.spacing
+    assert r_z < half_z < r_z + 4 * grid.spacing + 0.005 * r_z
+    assert grid.start[0] == grid.start[1] > grid.start[2] > 0
 
 
 @pytest.mark.parametrize("spec", SPECS)
@@ -142,7 +151,7 @@ def test_a_window_that_would_cut_the_surface_falls_back_to_the_whole_box():
     )
     field = field_of(orbital)
     grid = sample(field, box_half_width(orbital, iso, N), N, surface=short)
-    assert grid.start == 0 and grid.values.shape == (N, N, N)
+    assert grid.start == (0, 0, 0) and grid.values.shape == (N, N, N)
     ref = reference_field(orbital, field.kind, *full_axes(grid))
     # the whole box, from scipy's functions as above
     assert np.abs(grid.values - ref).max() <= 1e-5 * np.abs(ref).max()
@@ -157,10 +166,10 @@ def test_window_contours_to_the_whole_box_surface(spec, monkeypatch):
 
     orbital = Orbital.from_spec(spec)
     windowed = build_mesh(orbital, grid=80)
-    assert windowed.grid.start > 0
+    assert any(windowed.grid.start)
     monkeypatch.setattr(orbviz.grid, "window_start", lambda *args: 0)
     whole = build_mesh(orbital, grid=80)
-    assert whole.grid.start == 0
+    assert whole.grid.start == (0, 0, 0)
     for a, b in zip(windowed.bodies, whole.bodies, strict=True):
         assert a.name == b.name and a.faces.shape == b.faces.shape
         assert (
