@@ -22,6 +22,8 @@ from orbviz.grid import Grid
 
 __all__ = ["Body", "NoSurfaceError", "contour", "finish_body"]
 
+_SHEET_SIGN = {"positive": 1.0, "negative": -1.0}  # the sheet each body of a real state is on
+
 
 class NoSurfaceError(OrbvizError, ValueError):
     """The level lies outside the sampled field: there is nothing to contour."""
@@ -161,19 +163,26 @@ def finish_body(body: Body, grid: Grid, *, colors: tuple[tuple[int, ...], ...]) 
     """Fill normals (field gradient, outward), phase and colours from the exact psi.
 
     Inside a body |f| >= sqrt(level), so the outward normal is -sign(f) grad f / |grad f|: on
-    the +sqrt(level) sheet it points down the gradient, on the -sqrt(level) sheet up it.
+    the +sqrt(level) sheet it points down the gradient, on the -sqrt(level) sheet up it. A real
+    state's ``positive`` and ``negative`` bodies lie on one sheet each, so their sign is their
+    name; an envelope's surface has both sheets, and a complex state's colour is arg psi.
     """
-    grad = grid.field.gradient(body.vertices, step=1e-3 * grid.spacing)
+    value, grad = grid.field.value_and_gradient(body.vertices, step=1e-3 * grid.spacing)
     length = np.linalg.norm(grad, axis=1, keepdims=True)
     length[length == 0] = 1.0
-    side = np.sign(grid.field(*body.vertices.T))[:, None]
-    outward = -side * grad / length
     orbital = grid.field.orbital
-    psi = orbital.psi(*body.vertices.T, dtype=np.float64)
-    if orbital.is_real:
-        phase = np.sign(psi).astype(np.float32)
+    if grid.field.kind == "signed" and body.name in _SHEET_SIGN:
+        sign = _SHEET_SIGN[body.name]
+        outward = (-sign / length) * grad
+        phase = np.full(len(body.vertices), sign, dtype=np.float32)
         rgba = sign_colors(phase, colors)
     else:
-        phase = np.angle(psi).astype(np.float32)
-        rgba = phase_colors(phase)
+        outward = -np.sign(value)[:, None] * grad / length
+        psi = orbital.psi(*body.vertices.T, dtype=np.float64)
+        if orbital.is_real:
+            phase = np.sign(psi).astype(np.float32)
+            rgba = sign_colors(phase, colors)
+        else:
+            phase = np.angle(psi).astype(np.float32)
+            rgba = phase_colors(phase)
     return Body(body.name, body.vertices, body.faces, outward.astype(np.float32), phase, rgba)
