@@ -91,7 +91,13 @@ def animate(
     for t in times:
         state = evolve(orbital, t)
         mesh = build_mesh(
-            state, fraction=fraction, grid=grid, colors=opts.colors, half_width=width, level=iso
+            state,
+            fraction=fraction,
+            grid=grid,
+            colors=opts.colors,
+            half_width=width,
+            level=iso,
+            window=False,  # the shared level's reach is sampled at four times, not this one
         )
         caption = f"{orbital.spec}   t = {t * fs:.3f} fs of T = {beat.femtoseconds:.3f} fs" + (
             "" if beat.exact else " (not exactly periodic)"

@@ -153,6 +153,7 @@ def build_mesh(
     colors=DEFAULT_PAIR,
     half_width: float | None = None,
     level: Isovalue | None = None,
+    window: bool = True,
 ) -> OrbitalMesh:
     """Isosurface bodies of an orbital enclosing ``fraction`` of its probability.
 
@@ -174,6 +175,10 @@ def build_mesh(
         Fix the box (bohr) instead of sizing it from the probability; it must hold the surface.
     level : Isovalue, optional
         Use this level instead of solving for ``fraction`` (frames of one animation share it).
+    window : bool, default: True
+        Sample only the window the surface reaches (``level.axis_reach`` or ``max_radius``; see
+        :func:`orbviz.grid.sample`). Pass False when ``level`` does not bound this state's
+        surface, as a level shared by the frames of an animation does not.
 
     Returns
     -------
@@ -193,7 +198,7 @@ def build_mesh(
             f"the box half-width {width:g} bohr does not hold the surface, which reaches "
             f"{iso.max_radius:.4g} bohr"
         )
-    samples = sample(field, width, grid, surface=iso)
+    samples = sample(field, width, grid, surface=iso if window else None)
     bodies = contour(samples, iso.level)
     if smoothing:
         bodies = [smooth(b, iterations=smoothing) for b in bodies]
