@@ -157,14 +157,31 @@ def test_a_window_that_would_cut_the_surface_falls_back_to_the_whole_box():
     assert np.abs(grid.values - ref).max() <= 1e-5 * np.abs(ref).max()
 
 
-@pytest.mark.parametrize("spec", ["3dz2", "4fxyz", "4,2,1", "2sp3[1]", "bond(1s,1s,R=2.0,+)"])
+@pytest.mark.parametrize(
+    "spec",
+    [
+        "3dz2",
+        "4fxyz",
+        "4,2,1",
+        "2sp3[1]",
+        "bond(1s,1s,R=2.0,+)",
+        "0.3*3dxy + 0.8*3dz2 - 0.5*3dxz",  # one shell, no mirror symmetry on x
+        "Fe:3dxy",  # a screened charge
+        "harmonic:2pz",  # a numerically solved radial function (see below)
+    ],
+)
 def test_window_contours_to_the_whole_box_surface(spec, monkeypatch):
     # the same triangles as contouring all N^3 samples (window_start forced to 0); VTK's points
     # are float32, so positions agree to float32 rounding of the box size. (A check of the
     # shortcut against the plain path: the plain path is checked against scipy in test_mesh.)
     import orbviz.grid
 
-    orbital = Orbital.from_spec(spec)
+    if spec.startswith("harmonic:"):
+        from orbviz.potentials import Harmonic
+
+        orbital = Orbital.from_spec(spec.split(":", 1)[1], potential=Harmonic(0.5))
+    else:
+        orbital = Orbital.from_spec(spec)
     windowed = build_mesh(orbital, grid=80)
     assert any(windowed.grid.start)
     monkeypatch.setattr(orbviz.grid, "window_start", lambda *args: 0)
