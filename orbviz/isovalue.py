@@ -270,6 +270,72 @@ class _Shell:
         return tuple(float(np.max(far * np.abs(u))) for u in (ux, uy, uz))
 
 
+def _term_parity(l: int, m: int) -> tuple[int, int, int]:
+    """Mirror parity on x, y, z of the real solid harmonic S_lm (chemistry real forms).
+
+    S_lm is Re (x + iy)^m P(z, r^2) for m > 0, Im (x + iy)^|m| P for m < 0 and P for m = 0, with
+    P of parity (-1)^(l - |m|) in z.
+    """
+    pz = (-1) ** (l - abs(m))
+    if m > 0:
+        return (-1) ** m, 1, pz
+    if m < 0:
+        return (-1) ** (abs(m) + 1), -1, pz
+    return 1, 1, pz
+
+
+def _definite(terms: list[tuple[tuple[int, int, int], complex]], axis: int) -> bool:
+    """Whether |sum c psi_nlm|^2 is even on an axis: real and imaginary parts of one parity each."""
+    real = {_term_parity(l, m)[axis] for (_, l, m), c in terms if c.real != 0}
+    imag = {_term_parity(l, m)[axis] for (_, l, m), c in terms if c.imag != 0}
+    return len(real) <= 1 and len(imag) <= 1
+
+
+def _density_mirrors(orbital) -> tuple[bool, bool, bool]:
+    """Axes whose mirror plane maps |psi|^2 onto itself.
+
+    A two-centre combination keeps the x and y mirrors its parts share; it keeps z -> -z only if
+    both centres carry the same orbital (then psi has parity p * sign on z).
+    """
+    if getattr(orbital, "general", False):
+        a, b = orbital.a, orbital.b
+        both = list(a.basis) + list(b.basis)
+        same = a.spec == b.spec and a.length_charge == b.length_charge and a.potential is None
+        z = same and b.potential is None and _definite(list(a.basis), 2)
+        return _definite(both, 0), _definite(both, 1), z
+    terms = list(orbital.basis)
+    return _definite(terms, 0), _definite(terms, 1), _definite(terms, 2)
+
+
+def _symmetry_frame(orbital) -> np.ndarray | None:
+    """Find an orthonormal frame (columns e1, e2, axis) with |psi|^2 symmetric about its axis.
+
+    None if there is no such axis to be found this way.
+
+    Every term m = 0 (about z), or a real state of s and p terms whose p parts all point one
+    way, as a hybrid's do: psi = sum R_ns(r) a_n + R_np(r) b_n (u . r_hat) about the direction u.
+    """
+    parts = [orbital.a, orbital.b] if getattr(orbital, "general", False) else [orbital]
+    if all(m == 0 for o in parts for (_, _, m), _ in o.basis):
+        return np.eye(3)
+    if len(parts) > 1 or not orbital.is_real or any(l > 1 for _, l in orbital.shells):
+        return None
+    axes = np.eye(3)
+    vectors = [
+        orbital.shell_angular(*axes)[(n, l)] for (n, l) in orbital.shells if l == 1
+    ]  # per p shell: (S at x_hat, y_hat, z_hat), the direction of its p part
+    vectors = [v for v in vectors if np.linalg.norm(v) > 0]
+    if not vectors:
+        return np.eye(3)
+    u = vectors[0] / np.linalg.norm(vectors[0])
+    if any(np.linalg.norm(np.cross(u, v)) > 1e-12 * np.linalg.norm(v) for v in vectors[1:]):
+        return None
+    helper = np.eye(3)[int(np.argmin(np.abs(u)))]
+    e1 = np.cross(helper, u)
+    e1 /= np.linalg.norm(e1)
+    return np.column_stack([e1, np.cross(u, e1), u])
+
+
 class _Rays:
     """A superposition of several shells, sampled on rays (product quadrature in r, t, azimuth).
 
@@ -291,14 +357,28 @@ class _Rays:
         self.radii = r = r_max * u * u
         dr_mass = r * r * 2.0 * r_max * u * du
         radial = {} if general else {(n, l): orbital.radial(n, l, r) for n, l in shells}
-        axial = all(m == 0 for o in parts for (_, _, m), _ in o.basis)
-        polar = DEFAULTS.ray_points * (l_top + 1) * refine * (16 if axial else 1)
-        t, dt = _midpoints(polar, -1.0, 1.0)
-        if axial:
+        frame = _symmetry_frame(orbital)  # columns e1, e2, axis; None: no axis of symmetry
+        mirror = (False, False, False) if frame is not None else _density_mirrors(orbital)
+        # a mirror plane halves the range sampled, at the same density of rays, mass doubled
+        t_low = 0.0 if mirror[2] else -1.0
+        polar = DEFAULTS.ray_points * (l_top + 1) * refine * (16 if frame is not None else 1)
+        t, dt = _midpoints(int(polar * (1.0 - t_low) / 2), t_low, 1.0)
+        weight = 2.0 if mirror[2] else 1.0
+        periodic = frame is None and not (mirror[0] or mirror[1])
+        if frame is not None:
             a, da = np.zeros(1), 2 * math.pi
         else:
-            a, da = _midpoints(2 * DEFAULTS.ray_points * (l_top + 1) * refine, 0.0, 2 * math.pi)
-        cell = dr_mass * dt * da
+            a_low, a_high = {
+                (True, True): (0.0, 0.5 * math.pi),
+                (False, True): (0.0, math.pi),  # y -> -y: azimuth -> -azimuth
+                (True, False): (-0.5 * math.pi, 0.5 * math.pi),  # x -> -x: azimuth -> pi - az
+                (False, False): (0.0, 2 * math.pi),
+            }[(mirror[0], mirror[1])]
+            share = (a_high - a_low) / (2 * math.pi)
+            count = int(2 * DEFAULTS.ray_points * (l_top + 1) * refine * share)
+            a, da = _midpoints(count, a_low, a_high)
+            weight /= share
+        cell = dr_mass * dt * da * weight
         # |psi| <= sum over shells of max|R| * sum_m |b_m| max|S_lm|, max|S_lm| <= sqrt((2l+1)/2pi)
         if general:  # |psi| <= N (max|phi_a| + max|phi_b|), each bounded as below
             bound = orbital.norm * sum(
@@ -317,6 +397,8 @@ class _Rays:
         for first in range(0, t.size, block):  # blocks of polar rings, with a one-ring halo
             lo, hi = max(first - 1, 0), min(first + block + 1, t.size)
             x, y, z = _unit(np.repeat(t[lo:hi], a.size), np.tile(a, hi - lo))
+            if frame is not None:
+                x, y, z = frame @ np.stack([x, y, z])
             if general:
                 psi = orbital.psi(np.outer(x, r), np.outer(y, r), np.outer(z, r), dtype=np.float64)
             else:
@@ -328,8 +410,10 @@ class _Rays:
             del psi
             logs = np.log(np.maximum(dens, np.finfo(np.float64).tiny))
             sq = np.gradient(logs, axis=2) ** 2 + np.gradient(logs, axis=0) ** 2
-            if a.size > 1:  # azimuth is periodic
+            if a.size > 1 and periodic:
                 sq += (0.5 * (np.roll(logs, -1, axis=1) - np.roll(logs, 1, axis=1))) ** 2
+            elif a.size > 1:  # a mirrored range: one-sided differences at its ends
+                sq += np.gradient(logs, axis=1) ** 2
             own = slice(first - lo, first - lo + min(block, t.size - first))
             dens, logs, sq = dens[own], logs[own], sq[own]
             half = np.clip(0.5 * np.sqrt(sq), 0.5 * step, 8.0)

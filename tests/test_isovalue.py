@@ -137,3 +137,58 @@ def test_unchecked_level_then_checked_later(spec):
         rho = -0.5 * math.log(quick.level * math.pi)
         assert _p_1s(rho) == pytest.approx(0.9, abs=1e-5)
         assert quick.max_radius == pytest.approx(rho, rel=1e-3)
+
+
+def test_hybrid_level_against_its_axisymmetric_form():
+    # 2sp3[1] = (2s + sqrt3 2p_u) / 2 along u = (1,1,1)/sqrt3 is axisymmetric about u, so its
+    # rotated form (2s + sqrt3 2pz) / 2 has the same level distribution. Brute-force midpoint sum
+    # of that form from scipy's functions (tests/conftest.py fine_axisymmetric).
+    iso = enclosing_isovalue(Orbital.from_spec("2sp3[1]"))
+
+    def psi(r, t):
+        y00 = np.real(sph_harm_y(0, 0, np.arccos(t), 0.0))
+        y10 = np.real(sph_harm_y(1, 0, np.arccos(t), 0.0))
+        return 0.5 * y00 * reference_radial(2, 0, r) + 0.5 * math.sqrt(3) * y10 * reference_radial(
+            2, 1, r
+        )
+
+    assert fine_axisymmetric(psi, iso.level, 60.0) == pytest.approx(0.9, abs=1e-4)
+    assert iso.enclosed_fraction == pytest.approx(0.9, abs=1e-5)
+
+
+@pytest.mark.slow
+def test_pi_bond_level_against_a_cartesian_sum():
+    # bond(2px,2px,R=2.5,+) from the textbook closed form psi_2px = x exp(-r/2) / (4 sqrt(2 pi))
+    # (hydrogen, Z = 1), on a 400^3 midpoint grid over [-30, 30]^3 bohr: normalised on the grid
+    # (the box misses under 1e-8 of the mass), then the mass at or above the level
+    iso = enclosing_isovalue(Orbital.from_spec("bond(2px,2px,R=2.5,+)"))
+    n, half = 400, 30.0
+    h = 2 * half / n
+    axis = -half + (np.arange(n) + 0.5) * h
+    x, y = np.meshgrid(axis, axis, indexing="ij")
+
+    def slabs():
+        for z in axis:
+            phi = [x * np.exp(-0.5 * np.sqrt(x * x + y * y + (z - c) ** 2)) for c in (-1.25, 1.25)]
+            yield ((phi[0] + phi[1]) / (4 * math.sqrt(2 * math.pi))) ** 2
+
+    total = sum(float(d.sum()) for d in slabs()) * h**3
+    above = sum(float(d[d >= iso.level * total].sum()) for d in slabs()) * h**3 / total
+    assert above == pytest.approx(0.9, abs=2e-4)  # 200^3 gives 0.89986, 400^3 0.89999
+    assert iso.enclosed_fraction == pytest.approx(0.9, abs=1e-4)
+
+
+@pytest.mark.parametrize("l", range(7))
+def test_mirror_parity_of_real_harmonics(l, rng):
+    # the mirror rule the ray quadrature halves its range by, against scipy's real harmonics
+    # (tests/conftest.py): x -> -x is azimuth -> pi - azimuth, y -> -y is azimuth -> -azimuth,
+    # z -> -z is polar -> pi - polar
+    from orbviz.isovalue import _term_parity
+
+    polar, azimuth = np.arccos(rng.uniform(-1, 1, 50)), rng.uniform(0, 2 * math.pi, 50)
+    mirrors = [(polar, math.pi - azimuth), (polar, -azimuth), (math.pi - polar, azimuth)]
+    for m in range(-l, l + 1):
+        value = reference_real_harmonic(l, m, polar, azimuth)
+        for axis, (p, a) in enumerate(mirrors):
+            expected = _term_parity(l, m)[axis] * value
+            assert np.allclose(reference_real_harmonic(l, m, p, a), expected, atol=1e-12)
