@@ -97,7 +97,9 @@ def run_item(item: Item, out_dir: str) -> dict[str, Any]:
                 thumb,
             )
         if any(o.startswith("model.") for o in outputs):
-            files += _models(item, orbital, out, options.colors)
+            # the figure's mesh serves the model too, unless a fixed extent changed its box
+            shared = mesh if options.extent is None else None
+            files += _models(item, orbital, out, options.colors, shared)
         report = mesh.report()
         entry.update(
             status="done",
@@ -130,7 +132,7 @@ def _shrink(png: Path, thumb: Path) -> None:
             image.save(temp, format="PNG")
 
 
-def _models(item: Item, orbital, out: Path, colors) -> list[Path]:
+def _models(item: Item, orbital, out: Path, colors, mesh=None) -> list[Path]:
     from orbviz.export.stl import write as write_stl
     from orbviz.export.threemf import write as write_3mf
     from orbviz.model import build_model
@@ -146,6 +148,7 @@ def _models(item: Item, orbital, out: Path, colors) -> list[Path]:
         fraction=item.settings["fraction"],
         grid=item.settings["grid"],
         colors=colors,
+        mesh=mesh,
     )
     files = []
     if "model.stl" in item.settings["outputs"]:

@@ -215,6 +215,7 @@ def build_model(
     fraction: float = DEFAULTS.fraction,
     grid: int = DEFAULTS.grid,
     colors=DEFAULT_PAIR,
+    mesh: OrbitalMesh | None = None,
 ) -> PrintModel:
     """Build a printable one-piece model whose longest side is ``size`` millimetres.
 
@@ -234,6 +235,9 @@ def build_model(
         Remove x > 0 (half) or x > 0, y > 0 (quarter) to show nested shells.
     fraction, grid, colors
         As for :func:`orbviz.mesh.build_mesh`.
+    mesh : OrbitalMesh, optional
+        This orbital's mesh, if already built with these settings (a batch item's figure and
+        model share one); it is read, not changed.
 
     Returns
     -------
@@ -261,11 +265,12 @@ def build_model(
         )
         raise ModelError(f"rod {rod_mm:.2g} mm < {min_feature:g} mm at --size {size:g}: {fix}")
     members = orbital if isinstance(orbital, (list, tuple)) else None
-    mesh = (
-        _set_mesh(members, fraction, grid)
-        if members
-        else build_mesh(orbital, fraction=fraction, grid=grid, colors=colors)
-    )
+    if mesh is None:
+        mesh = (
+            _set_mesh(members, fraction, grid)
+            if members
+            else build_mesh(orbital, fraction=fraction, grid=grid, colors=colors)
+        )
     vertices = np.vstack([b.vertices for b in mesh.bodies])
     scale = size / float(np.ptp(vertices, axis=0).max())  # provisional mm per bohr
     for _ in range(2):  # the stand changes the bounding box: rescale once more

@@ -256,3 +256,41 @@ def test_demo_runs(tmp_path, capsys):
     assert len(names) == 17 and {"3dz2", "3d-m1-complex", "sp3-like", "2pz-print"} <= names
     assert (tmp_path / "demo" / "2pz-print-model.3mf").exists()
     assert (tmp_path / "demo" / "index.html").exists()
+
+
+def test_figure_and_model_of_one_item_share_one_mesh(tmp_path, monkeypatch):
+    # an item with a figure and a model contours its orbital once (not a check of physics: of
+    # the work done); the model is still the one build_model makes on its own (same volume)
+    import orbviz.mesh
+    import orbviz.model
+    from orbviz.batch import run_item
+    from orbviz.orbital import Orbital
+
+    text = """
+[defaults]
+grid = 32
+outputs = ["png", "model.stl"]
+render = { size = "160x120" }
+model = { size = 60 }
+
+[[orbital]]
+spec = "2pz"
+"""
+    (item,) = parse_scene(text, "m.toml")
+    calls = []
+    real = orbviz.mesh.build_mesh
+
+    def counting(*args, **kwargs):
+        calls.append(args[0])
+        return real(*args, **kwargs)
+
+    monkeypatch.setattr(orbviz.mesh, "build_mesh", counting)
+    monkeypatch.setattr(orbviz.model, "build_mesh", counting)
+    entry = run_item(item, str(tmp_path))
+    assert entry["status"] == "done", entry
+    assert len(calls) == 1
+    alone = orbviz.model.build_model(Orbital.from_spec("2pz"), size=60, grid=32)
+    import trimesh
+
+    written = trimesh.load(tmp_path / "2pz-model.stl")
+    assert written.volume == pytest.approx(float(alone.solid.volume()), rel=1e-6)
