@@ -143,7 +143,7 @@ def summarise(orbital: Orbital, /, *, fraction: float = DEFAULTS.fraction) -> di
         "degeneracy": _degeneracy(orbital),
         "potential": orbital.potential.describe() if orbital.potential is not None else None,
         "radial_nodes": n_l[0] - n_l[1] - 1 if n_l else None,
-        "angular_nodes": state.l if state else None,
+        "angular_nodes": _angular_nodes(state),
         "radial_node_radii_bohr": orbital.node_radii(*n_l).tolist() if n_l else None,
         "mean_radius_bohr": mean_radius(orbital),
         "most_probable_radius_bohr": most_probable_radius_of(orbital),
@@ -154,6 +154,18 @@ def summarise(orbital: Orbital, /, *, fraction: float = DEFAULTS.fraction) -> di
         "surface_max_radius_bohr": iso.max_radius,
         "notes": list(orbital.notes),
     }
+
+
+def _angular_nodes(state) -> int | None:
+    """Angular nodal surfaces of an eigenstate: l for a real form, l - |m| cones for a complex one.
+
+    A complex eigenstate psi ~ P_l^|m|(cos polar) e^{i m azimuth} vanishes only where the
+    associated Legendre function does (l - |m| cones, the xy plane among them) and, for m != 0,
+    on the z axis, a line rather than a surface; a real form adds |m| planes through z.
+    """
+    if state is None:
+        return None
+    return state.l if state.form == "real" else state.l - abs(state.m)
 
 
 def _bond_summary(bond, fraction: float) -> dict[str, Any]:
@@ -230,6 +242,8 @@ def format_summary(info: dict[str, Any]) -> str:
         nodes = f"{info['radial_nodes']} radial"
         if info["angular_nodes"] is not None:
             nodes += f", {info['angular_nodes']} angular"
+            if info["form"] == "complex" and info["m"]:
+                nodes += " (and the z axis, a nodal line)"
         if info["radial_node_radii_bohr"]:
             radii = ", ".join(f"{r:.6g}" for r in info["radial_node_radii_bohr"])
             nodes += f"; radial nodes at r = {radii} bohr"

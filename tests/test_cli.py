@@ -138,3 +138,30 @@ def test_bad_input_one_line_exit_2(capsys, argv, fragment):
     assert err.count("\n") == 1 and err.startswith("orbviz: error: ")
     assert fragment in err
     assert "Traceback" not in err + out
+
+
+@pytest.mark.parametrize(
+    ("spec", "l", "m", "form"),
+    [
+        ("2,1,1", 1, 1, "complex"),
+        ("3,2,1", 2, 1, "complex"),
+        ("4,3,0", 3, 0, "complex"),
+        ("5,4,-2", 4, -2, "complex"),
+        ("3dxy", 2, -2, "real"),
+        ("4fz3", 3, 0, "real"),
+    ],
+)
+def test_info_angular_nodes(capsys, spec, l, m, form):
+    # a complex eigenstate's |psi|^2 vanishes where P_l^|m|(cos polar) does: count the sign
+    # changes of scipy.special.lpmv on (-1, 1); a real form has l nodal surfaces (textbook)
+    import numpy as np
+    from scipy.special import lpmv
+
+    status, out, _ = _run(capsys, "info", spec, "--json")
+    assert status == 0
+    info = json.loads(out)
+    t = (np.arange(20000) + 0.5) / 10000 - 1  # midpoints: no t lands on a root
+    cones = int(np.count_nonzero(np.diff(np.sign(lpmv(abs(m), l, t))) != 0))
+    assert info["angular_nodes"] == (cones if form == "complex" else l)
+    if form == "complex":
+        assert cones == l - abs(m)
