@@ -235,6 +235,10 @@ def field_of(orbital: Orbital, /) -> Field:
         for part, shift, weight in ((orbital.a, half, 1.0), (orbital.b, -half, orbital.sign)):
             text = re.sub(r"\bz\b", f"(z + {shift!r})", field_of(part).expression)
             parts.append(f"{weight * orbital.norm!r}*({text})")
+        if any(field_of(part).tables for part in (orbital.a, orbital.b)):
+            raise ParameterError(
+                f"bond(...) surfaces need orbitals with at most {_MAX_HORNER_DEGREE} radial nodes"
+            )
         pa, pb = field_of(orbital.a).parity, field_of(orbital.b).parity
         parity = (pa[0] if pa[0] == pb[0] else 0, pa[1] if pa[1] == pb[1] else 0, 0)
         return Field("signed", " + ".join(parts), orbital, parity=parity)
@@ -243,8 +247,10 @@ def field_of(orbital: Orbital, /) -> Field:
     tables: dict[str, tuple[np.ndarray, np.ndarray]] = {}
 
     def radial(n: int, l: int) -> str:
-        if orbital.potential is None:
+        if orbital.potential is None and n - l - 1 <= _MAX_HORNER_DEGREE:
             return _radial_expr(n, l, Z)
+        # numerically solved, or too many nodes for the monomial form: tabulate the function
+        # (hydrogen-like R by its stable recurrence) finely and interpolate
         name = f"R{len(tables)}"
         r = np.linspace(0.0, orbital.radial_extent(n, l, 1e-14), 40001)
         values = orbital.radial(n, l, r)
@@ -253,11 +259,6 @@ def field_of(orbital: Orbital, /) -> Field:
         tables[name] = (r, values)
         return name
 
-    if orbital.potential is None and any(n - l - 1 > _MAX_HORNER_DEGREE for n, l in orbital.shells):
-        raise ParameterError(
-            f"surfaces need n - l - 1 <= {_MAX_HORNER_DEGREE} radial nodes, got (n, l) in "
-            f"{orbital.shells}"
-        )
     if orbital.is_real:
         shells: dict[tuple[int, int], Poly] = {}
         for (n, l, m), c in orbital.basis:

@@ -214,3 +214,16 @@ def test_checks_catch_an_open_mesh(meshes):
     flipped = body.faces.copy()
     flipped[0] = flipped[0, ::-1]  # one triangle wound the wrong way
     assert not mesh_facts(body.vertices, flipped).consistent
+
+
+@pytest.mark.slow
+def test_many_radial_nodes_16s():
+    # 15 radial nodes: past the monomial Laguerre form, tabulated from the recurrence. Exact
+    # |psi|^2 at the vertices from scipy's eval_genlaguerre (tests/conftest.py), 5-95% band
+    # within +-5% of the level at --grid 256 (docs/meshes.md: 128 is too coarse for 16s)
+    result = build_mesh(Orbital.from_spec("16s"), grid=256)
+    vertices = np.vstack([b.vertices for b in result.bodies])
+    dens = np.abs(reference_psi([(1, 16, 0, 0, "real")], *vertices.T)) ** 2
+    low, high = np.percentile(dens / result.isovalue.level, [5, 95])
+    assert 0.95 <= low and high <= 1.05
+    assert all(b.to_trimesh().is_watertight for b in result.bodies)

@@ -133,19 +133,22 @@ def test_run_manifest_rerun_and_force(tmp_path):
 
 def test_one_failure_does_not_stop_the_others(tmp_path, capsys):
     scene = tmp_path / "s.toml"
-    # the second item's surface is beyond the mesher's radial-node limit: it fails alone
+    # the second item asks for a model too small for its rod, found when it is built (at run
+    # time): it fails alone
     scene.write_text(
         "[defaults]\ngrid = 32\noutputs = ['stl']\n"
-        "[[orbital]]\nspec = '2pz'\n[[orbital]]\nspec = '20s'\n[[orbital]]\nspec = '1s'\n"
+        "[[orbital]]\nspec = '2pz'\n"
+        "[[orbital]]\nspec = '3dz2'\noutputs = ['model.stl']\nmodel = { size = 20 }\n"
+        "[[orbital]]\nspec = '1s'\n"
     )
     status = main(["batch", str(scene), "-o", str(tmp_path / "out"), "--no-progress"])
     assert status == 1
     manifest = json.loads((tmp_path / "out" / "manifest.json").read_text())
     states = {e["name"]: e["status"] for e in manifest["items"]}
-    assert states == {"2pz": "done", "20s": "failed", "1s": "done"}
+    assert states == {"2pz": "done", "3dz2": "failed", "1s": "done"}
     failed = next(e for e in manifest["items"] if e["status"] == "failed")
-    assert "radial nodes" in failed["error"]
-    assert "failed: 20s" in capsys.readouterr().err
+    assert "rod 0.8 mm < 1.2 mm" in failed["error"]
+    assert "failed: 3dz2" in capsys.readouterr().err
 
 
 def test_custom_executor_is_used(tmp_path):
