@@ -54,8 +54,12 @@ HYBRIDS: dict[str, list[dict[str, float]]] = {
 }
 
 
-def hybrid_terms(n: int, name: str, index: int) -> list[tuple[str, float]]:
-    """Return the (label, coefficient) terms of hybrid ``name[index]`` in shell n (from 1)."""
+def hybrid_terms(n: int, name: str, index: int) -> list[tuple[int, int, float]]:
+    """Return the (l, m, coefficient) real-orbital terms of hybrid ``name[index]`` in shell n.
+
+    ``index`` counts from 1. Each orbital is taken with its outer lobe positive, the sign
+    (-1)^(n - l - 1), so the large lobe points along the named direction.
+    """
     from orbviz.errors import SpecError
 
     members = HYBRIDS[name]
@@ -67,8 +71,8 @@ def hybrid_terms(n: int, name: str, index: int) -> list[tuple[str, float]]:
 
     out = []
     for label, coef in members[index - 1].items():
-        l, _ = LABELS[label]
-        out.append((f"{n}{label}", coef * (-1) ** (n - l - 1)))  # outer lobe positive
+        l, m = LABELS[label]
+        out.append((l, m, coef * (-1) ** (n - l - 1)))  # outer lobe positive
     return out
 
 

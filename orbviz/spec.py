@@ -125,11 +125,9 @@ def parse_spec(spec: str, /) -> list[Atom]:
         if state:
             from orbviz.hybrids import hybrid_terms
 
-            for label, weight in hybrid_terms(
-                int(state.group("n")), state.group("name").lower(), int(state.group("k"))
-            ):
-                l, m = LABELS[label.lstrip("0123456789")]
-                atoms.append(Atom(int(state.group("n")), l, m, "real", sign * coef * weight))
+            n = int(state.group("n"))
+            for l, m, weight in hybrid_terms(n, state.group("name").lower(), int(state.group("k"))):
+                atoms.append(Atom(n, l, m, "real", sign * coef * weight))
             pos = state.end()
             while pos < len(text) and text[pos].isspace():
                 pos += 1
