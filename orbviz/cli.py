@@ -182,20 +182,30 @@ def _cmd_mesh(args: argparse.Namespace) -> int:
         colors=colors,
     )
     written = write_bodies(result.bodies, out, units=args.units)
-    report = result.report()
-    report["files"] = [str(p) for p in written]
-    report["units"] = args.units
-    if args.report:
+    if args.report:  # the full report adds the level's check and the outside of the window
+        report = result.report()
+        report["files"] = [str(p) for p in written]
+        report["units"] = args.units
         _write_json(args.report, report)
+        bodies = report["bodies"]
+    else:
+        bodies = result.body_facts()
     pieces = ", ".join(
-        f"{b['name']} ({b['pieces']} piece{'s' * (b['pieces'] != 1)})" for b in report["bodies"]
+        f"{b['name']} ({b['pieces']} piece{'s' * (b['pieces'] != 1)})" for b in bodies
     )
+    watertight = all(b["watertight"] for b in bodies)
     print(
-        f"wrote {', '.join(str(p) for p in written)}: {report['faces']} faces, {pieces}; "
-        f"isovalue {report['isovalue']:.4e} bohr^-3 encloses {100 * args.fraction:g}%; "
-        f"watertight: {'yes' if report['watertight'] else 'NO'}"
+        f"wrote {', '.join(str(p) for p in written)}: {sum(b['faces'] for b in bodies)} faces, "
+        f"{pieces}; isovalue {result.isovalue.level:.4e} bohr^-3 encloses "
+        f"{100 * args.fraction:g}%; watertight: {'yes' if watertight else 'NO'}"
     )
+    _print_notes(result.notes)
     return 0
+
+
+def _print_notes(notes: list[str]) -> None:
+    for note in notes:
+        print(f"orbviz: note: {note}", file=sys.stderr)
 
 
 def _size(text: str) -> tuple[int, int]:
@@ -243,6 +253,7 @@ def _cmd_render(args: argparse.Namespace) -> int:
     from orbviz.render import figure, render_png
 
     fig = figure(orbital, fraction=args.fraction, grid=args.grid, options=options)
+    _print_notes(fig.mesh.notes)
     render_png(fig, out)
     w, h = (round(v * options.scale) for v in options.size)
     print(f"wrote {out} ({w}x{h}): {orbital.label}, {100 * args.fraction:g}% isovalue")

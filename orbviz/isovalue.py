@@ -16,6 +16,7 @@ linearly, and the level is read off the tabulated P directly.
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from dataclasses import dataclass
 
@@ -51,6 +52,10 @@ class Isovalue:
     axis_reach : (3,) tuple of float, optional
         Largest |x|, |y| and |z| (bohr) at which |psi|^2 >= c, on a grid of directions that
         holds the axes; None where only ``max_radius`` is known (it bounds all three).
+    thinnest_shell : float, optional
+        Radial thickness (bohr) of the thinnest shell of {|psi|^2 >= c} along the direction of
+        largest angular density, for a one-shell state; a grid coarser than about twice this
+        misses the shell's shape.
     """
 
     level: float
@@ -59,6 +64,7 @@ class Isovalue:
     max_radius: float
     method: str
     axis_reach: tuple[float, float, float] | None = None
+    thinnest_shell: float | None = None
 
 
 class _LogMass:
@@ -245,6 +251,15 @@ class _Shell:
     def max_radius(self, level: float) -> float:
         inside = self.radial_density * self.max_angular >= level
         return float(self.radii[inside].max()) if inside.any() else 0.0
+
+    def thinnest_shell(self, level: float) -> float | None:
+        """Shortest run of radii where R^2 max(A) >= level (None if there is none)."""
+        inside = np.concatenate([[False], self.radial_density * self.max_angular >= level, [False]])
+        change = np.flatnonzero(np.diff(inside.astype(np.int8)))
+        if change.size == 0:
+            return None
+        first, last = change[::2], change[1::2] - 1  # index runs [first, last] inside
+        return float(np.min(self.radii[last] - self.radii[first]))
 
     def axis_reach(self, level: float) -> tuple[float, float, float]:
         """Largest |x|, |y|, |z| of {|psi|^2 >= level}: per direction, the farthest radius.
@@ -498,8 +513,10 @@ def enclosing_isovalue(
     one_shell = not getattr(orbital, "general", False) and len(orbital.shells) == 1
     solve = _Shell(orbital, 1) if one_shell else _Rays(orbital, 2)
     level = math.exp(solve.table.level_above(fraction))
-    reach = solve.axis_reach(level) if isinstance(solve, _Shell) else None
-    iso = Isovalue(level, fraction, math.nan, solve.max_radius(level), solve.method, reach)
+    shell = isinstance(solve, _Shell)
+    reach = solve.axis_reach(level) if shell else None
+    thin = solve.thinnest_shell(level) if shell else None
+    iso = Isovalue(level, fraction, math.nan, solve.max_radius(level), solve.method, reach, thin)
     return _checked(orbital, iso, solve) if check else iso
 
 
@@ -534,6 +551,6 @@ def _checked(orbital: Orbital, iso: Isovalue, solve: _Shell | _Rays | None) -> I
     else:
         check = _Shell(orbital, 2)
         achieved = float(check.table.above(at)[0])
-    return Isovalue(
-        iso.level, iso.fraction, achieved, check.max_radius(iso.level), iso.method, iso.axis_reach
+    return dataclasses.replace(
+        iso, enclosed_fraction=achieved, max_radius=check.max_radius(iso.level)
     )

@@ -165,3 +165,12 @@ def test_info_angular_nodes(capsys, spec, l, m, form):
     assert info["angular_nodes"] == (cones if form == "complex" else l)
     if form == "complex":
         assert cones == l - abs(m)
+
+
+def test_mesh_notes_a_grid_too_coarse_for_thin_shells(capsys, tmp_path):
+    # 12s at the default grid: see tests/test_mesh.py for the vertex levels behind the note
+    status, out, err = _run(capsys, "mesh", "12s", "-o", str(tmp_path / "a.stl"))
+    assert status == 0 and out.startswith("wrote ")
+    assert err.startswith("orbviz: note: the thinnest shell is") and "--grid" in err
+    status, _, err = _run(capsys, "mesh", "3s", "-o", str(tmp_path / "b.stl"))
+    assert status == 0 and err == ""

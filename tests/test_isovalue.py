@@ -192,3 +192,17 @@ def test_mirror_parity_of_real_harmonics(l, rng):
         for axis, (p, a) in enumerate(mirrors):
             expected = _term_parity(l, m)[axis] * value
             assert np.allclose(reference_real_harmonic(l, m, p, a), expected, atol=1e-12)
+
+
+def test_thinnest_shell_of_2s_against_scipy_roots():
+    # {|psi|^2 >= c} of 2s is a ball r < a and a shell b < r < d; roots of
+    # R_20(r)^2 / 4pi = c by brentq on scipy's R_20 (tests/conftest.py), node at r = 2 bohr
+    iso = enclosing_isovalue(Orbital.from_spec("2s"))
+
+    def g(r):
+        return reference_radial(2, 0, r) ** 2 / (4 * math.pi) - iso.level
+
+    a = brentq(g, 1e-9, 2.0)
+    peak = 4.0  # outer extremum of R_20 ~ (2 - r) e^{-r/2}: its derivative vanishes at r = 4
+    b, d = brentq(g, 2.0 + 1e-9, peak), brentq(g, peak, 60.0)
+    assert iso.thinnest_shell == pytest.approx(min(a, d - b), rel=1e-3)

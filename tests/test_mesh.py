@@ -227,3 +227,26 @@ def test_many_radial_nodes_16s():
     low, high = np.percentile(dens / result.isovalue.level, [5, 95])
     assert 0.95 <= low and high <= 1.05
     assert all(b.to_trimesh().is_watertight for b in result.bodies)
+
+
+def test_coarse_grid_note_and_its_advice_12s():
+    # 12s at the default grid: its thinnest shell is under 0.4 cells, and the vertex levels stray
+    # beyond +-5%; the grid the note advises brings the 5-95% band within +-5% of c (exact
+    # |psi|^2 from scipy's functions, tests/conftest.py)
+    import re
+
+    orbital = Orbital.from_spec("12s")
+    coarse = build_mesh(orbital)
+    assert coarse.notes and "thinnest shell" in coarse.notes[0]
+    advised = int(re.search(r"--grid (\d+)", coarse.notes[0]).group(1))
+    fine = build_mesh(orbital, grid=advised)
+    assert fine.notes == []
+    for result, ok in ((coarse, False), (fine, True)):
+        vertices = np.vstack([b.vertices for b in result.bodies])
+        dens = np.abs(reference_psi([(1, 12, 0, 0, "real")], *vertices.T)) ** 2
+        low, high = np.percentile(dens / result.isovalue.level, [5, 95])
+        assert (0.95 <= low and high <= 1.05) == ok
+
+
+def test_no_note_for_textbook_shapes(meshes):
+    assert all(result.notes == [] for result in meshes.values())
