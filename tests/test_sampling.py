@@ -6,6 +6,8 @@ import math
 
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 from scipy.optimize import brentq
 
 from orbviz.fields import field_of
@@ -199,3 +201,31 @@ def test_window_contours_to_the_whole_box_surface(spec, monkeypatch):
     assert windowed.report()["in_box_probability"] == pytest.approx(
         whole.report()["in_box_probability"], rel=1e-6
     )
+
+
+@settings(max_examples=12, deadline=None)
+@given(
+    st.lists(
+        st.floats(-1.0, 1.0, allow_nan=False).filter(lambda c: abs(c) > 0.05),
+        min_size=5,
+        max_size=5,
+    ),
+    st.sampled_from([(3, 2), (4, 2), (4, 3)]),
+)
+def test_random_one_shell_mixtures_sample_as_scipy_says(coefs, shell):
+    # real mixtures of one (n, l) shell: the windowed, mirrored samples against the scipy-built
+    # psi (tests/conftest.py) on the whole grid, and nothing outside the window at the level
+    n, l = shell
+    terms = [(c, n, l, m, "real") for c, m in zip(coefs, range(-2, 3), strict=True)]
+    from orbviz.angular import LABELS
+
+    label = {lm: name for name, lm in LABELS.items()}
+    spec = " + ".join(f"({c!r})*{n}{label[(l, m)]}" for c, _, _, m, _ in terms)
+    orbital = Orbital.from_spec(spec)
+    iso = enclosing_isovalue(orbital, check=False)
+    grid = sample(field_of(orbital), box_half_width(orbital, iso, 40), 40, surface=iso)
+    ref = reference_field(orbital, "signed", *full_axes(grid))
+    assert np.abs(grid.values - ref[window(grid)]).max() <= 1e-5 * np.abs(ref).max()
+    outside = np.ones(ref.shape, dtype=bool)
+    outside[window(grid)] = False
+    assert np.abs(ref[outside]).max(initial=0.0) < math.sqrt(iso.level)
