@@ -172,16 +172,26 @@ def available_bytes() -> int:
     return os.sysconf("SC_PAGE_SIZE") * os.sysconf("SC_PHYS_PAGES")
 
 
-def estimate_bytes(points: int) -> int:
+def estimate_bytes(points: int, held: tuple[int, int, int] | None = None) -> int:
     """Peak memory estimate of sampling and contouring an N^3 grid.
 
-    One float32 field, and contour output of at most ~8 N^2 vertices and 16 N^2 triangles per
-    side (vertex 12 B, normal 12 B, colour 4 B, scalars 4 B; triangle 12 B plus VTK's cell
-    arrays 16 B), with both phases and a copy during post-processing.
+    One float32 field (of the ``held`` window's shape, if given, else the whole box), and
+    contour output of at most ~8 N^2 vertices and 16 N^2 triangles per side (vertex 12 B,
+    normal 12 B, colour 4 B, scalars 4 B; triangle 12 B plus VTK's cell arrays 16 B), with both
+    phases and a copy during post-processing.
     """
-    field = 4 * points**3
+    field = 4 * math.prod(held or (points, points, points))
     surface = 2 * 2 * (8 * points**2 * 32 + 16 * points**2 * 28)
     return field + surface
+
+
+def _check_memory(points: int, held: tuple[int, int, int] | None = None) -> None:
+    need, have = estimate_bytes(points, held), available_bytes()
+    if need > 0.8 * have:
+        raise ParameterError(
+            f"a {points}^3 grid needs about {need / 2**30:.1f} GiB but only "
+            f"{have / 2**30:.1f} GiB is available; use a smaller --grid"
+        )
 
 
 def window_start(points: int, half_width: float, reach: float) -> int:
@@ -246,12 +256,6 @@ def sample(
         If the estimated memory exceeds 80% of what the system has available.
     """
     points = check_grid_points(points)
-    need, have = estimate_bytes(points), available_bytes()
-    if need > 0.8 * have:
-        raise ParameterError(
-            f"a {points}^3 grid needs about {need / 2**30:.1f} GiB but only "
-            f"{have / 2**30:.1f} GiB is available; use a smaller --grid"
-        )
     axis = np.linspace(-half_width, half_width, points)
     start = (0, 0, 0)
     if surface is not None:
@@ -260,11 +264,14 @@ def sample(
         start = (sx, sy, sz)
     if any(start):
         held = [axis[s : points - s] for s in start]
-        values = np.empty([a.size for a in held], dtype=np.float32, order="F")
+        shape = (held[0].size, held[1].size, held[2].size)
+        _check_memory(points, shape)
+        values = np.empty(shape, dtype=np.float32, order="F")
         _fill(field, held, values)
         if _faces_clear(values, math.sqrt(surface.level)):
             return Grid(values, float(half_width), field, start)
         del values
+    _check_memory(points)
     values = np.empty((points, points, points), dtype=np.float32, order="F")
     _fill(field, [axis, axis, axis], values)
     return Grid(values, float(half_width), field)

@@ -250,3 +250,17 @@ def test_coarse_grid_note_and_its_advice_12s():
 
 def test_no_note_for_textbook_shapes(meshes):
     assert all(result.notes == [] for result in meshes.values())
+
+
+def test_memory_check_counts_the_window(monkeypatch):
+    # 3dz2 at 512^3: the whole box's estimate (field 537 MB + surface 738 MB) exceeds 80% of a
+    # 1.3 GB allowance, the window's (its 27% of the box) does not; a behaviour check, no physics
+    import orbviz.grid
+    from orbviz.grid import estimate_bytes
+
+    allowance = int(1.3e9)
+    monkeypatch.setattr(orbviz.grid, "available_bytes", lambda: allowance)
+    assert estimate_bytes(512) > 0.8 * allowance
+    result = build_mesh(Orbital.from_spec("3dz2"), grid=512)
+    held = result.grid.values.shape
+    assert estimate_bytes(512, held) <= 0.8 * allowance and any(result.grid.start)
