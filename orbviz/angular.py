@@ -19,6 +19,7 @@ __all__ = [
     "complex_harmonic",
     "label_of",
     "lm_of_label",
+    "mirror_parity",
     "real_harmonic",
     "solid_harmonic_complex",
     "solid_harmonic_real",
@@ -193,3 +194,17 @@ def complex_harmonic(l: int, m: int, polar: npt.ArrayLike, azimuth: npt.ArrayLik
 def real_harmonic(l: int, m: int, polar: npt.ArrayLike, azimuth: npt.ArrayLike) -> np.ndarray:
     """Real spherical harmonic with the chemistry signs; see :func:`solid_harmonic_real`."""
     return solid_harmonic_real(l, m, *_directions(polar, azimuth))
+
+
+def mirror_parity(l: int, m: int) -> tuple[int, int, int]:
+    """Parity of the real solid harmonic S_lm (chemistry forms) under x, y and z mirrors.
+
+    S_lm is Re (x + iy)^m P(z, r^2) for m > 0, Im (x + iy)^|m| P for m < 0 and P for m = 0, with
+    P of parity (-1)^(l - |m|) in z.
+    """
+    pz = (-1) ** (l - abs(m))
+    if m > 0:
+        return (-1) ** m, 1, pz
+    if m < 0:
+        return (-1) ** (abs(m) + 1), -1, pz
+    return 1, 1, pz

@@ -23,11 +23,12 @@ from dataclasses import dataclass, field
 import numpy as np
 import numpy.typing as npt
 
+from orbviz.angular import mirror_parity
 from orbviz.errors import ParameterError
 from orbviz.orbital import Orbital
 from orbviz.radial import _log_norm
 
-__all__ = ["Field", "field_of"]
+__all__ = ["Field", "field_of", "field_parity"]
 
 Poly = dict[tuple[int, int, int], float]
 _MAX_HORNER_DEGREE = 14  # beyond this the monomial Laguerre form loses digits in float64
@@ -102,18 +103,53 @@ def _poly_expr(poly: Poly) -> str:
     return "(" + " + ".join(terms) + ")" if terms else "0.0"
 
 
-def _parity(polys: list[Poly]) -> tuple[int, int, int]:
-    """Mirror parity of a sum of monomials on each axis: +1 even, -1 odd, 0 neither.
+def _combination_parity(terms) -> tuple[int, int, int]:
+    """Parity on each axis of sum c R_nl S_lm over ((n, l, m), c), c real.
 
-    Coefficients below 1e-12 of the largest are rounding left by cancellation and do not count.
-    An empty sum is even.
+    +1 or -1 where every term with c != 0 agrees, 0 where they disagree; an empty sum is even.
     """
-    top = max((abs(v) for p in polys for v in p.values()), default=0.0)
     out = []
     for axis in range(3):
-        seen = {k[axis] % 2 for p in polys for k, v in p.items() if abs(v) > 1e-12 * top}
-        out.append(0 if len(seen) > 1 else (-1 if seen == {1} else 1))
+        seen = {mirror_parity(l, m)[axis] for (_, l, m), c in terms if c != 0}
+        out.append(seen.pop() if len(seen) == 1 else (0 if seen else 1))
     return out[0], out[1], out[2]
+
+
+def _kind(orbital) -> str:
+    """Which field is contoured (see the module docstring)."""
+    if getattr(orbital, "general", False) or orbital.is_real:
+        return "signed"
+    state = orbital.eigenstate
+    if state is not None and state.form == "complex" and len(orbital.shells) == 1:
+        return "envelope"
+    return "modulus"
+
+
+def field_parity(orbital) -> tuple[int, int, int]:
+    """Mirror parity of an orbital's contoured field on x, y, z: +1 even, -1 odd, 0 neither.
+
+    Found from the basis alone, without building the field. Signed: the common parity of the
+    terms. Envelope: even in x and y, (-1)^(l - |m|) in z. Modulus |a + ib|: even where a and b
+    each have a parity. Two centres: the parts' shared x and y parity; on z, p * sign when both
+    centres carry the same orbital of z parity p, since psi(-z) = N [p phi(z - h) + sign p
+    phi(z + h)]. Wherever it is nonzero, |psi|^2 is even.
+    """
+    if getattr(orbital, "general", False):
+        a, b = orbital.a, orbital.b
+        px, py, _ = _combination_parity(list(a.basis) + list(b.basis))
+        same = a.spec == b.spec and a.length_charge == b.length_charge
+        pz = _combination_parity(list(a.basis))[2] * int(orbital.sign) if same else 0
+        return px, py, pz
+    kind = _kind(orbital)
+    if kind == "signed":
+        return _combination_parity([(k, c.real) for k, c in orbital.basis])
+    if kind == "envelope":
+        state = orbital.eigenstate
+        return 1, 1, mirror_parity(state.l, state.m)[2]
+    re_p = _combination_parity([(k, c.real) for k, c in orbital.basis])
+    im_p = _combination_parity([(k, c.imag) for k, c in orbital.basis])
+    px, py, pz = (int(bool(a and b)) for a, b in zip(re_p, im_p, strict=True))
+    return px, py, pz
 
 
 def _radial_expr(n: int, l: int, Z: float) -> str:
@@ -222,10 +258,6 @@ class Field:
             grad[:, axis] = (values[1 + 2 * axis] - values[2 + 2 * axis]) / (2 * step)
         return values[0], grad
 
-    def gradient(self, points: np.ndarray, step: float = 1e-4) -> np.ndarray:
-        """Central-difference gradient at (V, 3) points, float64 (step in bohr)."""
-        return self.value_and_gradient(points, step)[1]
-
 
 def field_of(orbital: Orbital, /) -> Field:
     """Build the contoured field of an orbital (see the module docstring)."""
@@ -233,15 +265,15 @@ def field_of(orbital: Orbital, /) -> Field:
         half = orbital.R / 2
         parts = []
         for part, shift, weight in ((orbital.a, half, 1.0), (orbital.b, -half, orbital.sign)):
-            text = re.sub(r"\bz\b", f"(z + {shift!r})", field_of(part).expression)
+            own = field_of(part)
+            if own.tables:
+                raise ParameterError(
+                    f"bond(...) surfaces need orbitals with at most {_MAX_HORNER_DEGREE} radial "
+                    "nodes"
+                )
+            text = re.sub(r"\bz\b", f"(z + {shift!r})", own.expression)
             parts.append(f"{weight * orbital.norm!r}*({text})")
-        if any(field_of(part).tables for part in (orbital.a, orbital.b)):
-            raise ParameterError(
-                f"bond(...) surfaces need orbitals with at most {_MAX_HORNER_DEGREE} radial nodes"
-            )
-        pa, pb = field_of(orbital.a).parity, field_of(orbital.b).parity
-        parity = (pa[0] if pa[0] == pb[0] else 0, pa[1] if pa[1] == pb[1] else 0, 0)
-        return Field("signed", " + ".join(parts), orbital, parity=parity)
+        return Field("signed", " + ".join(parts), orbital, parity=field_parity(orbital))
     Z = orbital.length_charge
     state = orbital.eigenstate
     tables: dict[str, tuple[np.ndarray, np.ndarray]] = {}
@@ -259,19 +291,19 @@ def field_of(orbital: Orbital, /) -> Field:
         tables[name] = (r, values)
         return name
 
-    if orbital.is_real:
+    kind = _kind(orbital)
+    if kind == "signed":
         shells: dict[tuple[int, int], Poly] = {}
         for (n, l, m), c in orbital.basis:
             shells[(n, l)] = _add(shells.get((n, l), {}), _real_solid_poly(l, m), c.real)
         text = " + ".join(f"{radial(n, l)}*{_poly_expr(p)}" for (n, l), p in shells.items())
-        return Field("signed", text, orbital, tables, _parity(list(shells.values())))
-    if state is not None and state.form == "complex" and len(orbital.shells) == 1:
+        return Field("signed", text, orbital, tables, field_parity(orbital))
+    if kind == "envelope":
         n, l, m = state.n, state.l, state.m
-        theta_poly = _theta_poly(l, abs(m))
-        theta = _poly_expr(theta_poly)
+        theta = _poly_expr(_theta_poly(l, abs(m)))
         rho = f"(x**2 + y**2)**{abs(m) / 2!r}"
-        parity = (1, 1, _parity([theta_poly])[2])  # rho and theta's r^2 are even in x and y
-        return Field("envelope", f"{radial(n, l)}*{theta}*{rho}", orbital, tables, parity)
+        expression = f"{radial(n, l)}*{theta}*{rho}"
+        return Field("envelope", expression, orbital, tables, field_parity(orbital))
     real_part: dict[tuple[int, int], Poly] = {}
     imag_part: dict[tuple[int, int], Poly] = {}
     for (n, l, m), c in orbital.basis:
@@ -280,8 +312,5 @@ def field_of(orbital: Orbital, /) -> Field:
         imag_part[(n, l)] = _add(imag_part.get((n, l), {}), poly, c.imag)
     real_text = " + ".join(f"{radial(n, l)}*{_poly_expr(p)}" for (n, l), p in real_part.items())
     imag_text = " + ".join(f"{radial(n, l)}*{_poly_expr(p)}" for (n, l), p in imag_part.items())
-    # |a + ib| is even on an axis where a and b each have a parity of their own
-    re_p, im_p = _parity(list(real_part.values())), _parity(list(imag_part.values()))
-    parity = tuple(int(bool(a and b)) for a, b in zip(re_p, im_p, strict=True))
     text = f"sqrt(({real_text})**2 + ({imag_text})**2)"
-    return Field("modulus", text, orbital, tables, parity)
+    return Field("modulus", text, orbital, tables, field_parity(orbital))

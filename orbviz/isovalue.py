@@ -24,6 +24,7 @@ import numpy as np
 
 from orbviz._defaults import DEFAULTS
 from orbviz.errors import ParameterError
+from orbviz.fields import field_parity
 from orbviz.orbital import Orbital
 
 __all__ = ["Isovalue", "check_isovalue", "enclosed_probability", "enclosing_isovalue"]
@@ -285,43 +286,6 @@ class _Shell:
         return tuple(float(np.max(far * np.abs(u))) for u in (ux, uy, uz))
 
 
-def _term_parity(l: int, m: int) -> tuple[int, int, int]:
-    """Mirror parity on x, y, z of the real solid harmonic S_lm (chemistry real forms).
-
-    S_lm is Re (x + iy)^m P(z, r^2) for m > 0, Im (x + iy)^|m| P for m < 0 and P for m = 0, with
-    P of parity (-1)^(l - |m|) in z.
-    """
-    pz = (-1) ** (l - abs(m))
-    if m > 0:
-        return (-1) ** m, 1, pz
-    if m < 0:
-        return (-1) ** (abs(m) + 1), -1, pz
-    return 1, 1, pz
-
-
-def _definite(terms: list[tuple[tuple[int, int, int], complex]], axis: int) -> bool:
-    """Whether |sum c psi_nlm|^2 is even on an axis: real and imaginary parts of one parity each."""
-    real = {_term_parity(l, m)[axis] for (_, l, m), c in terms if c.real != 0}
-    imag = {_term_parity(l, m)[axis] for (_, l, m), c in terms if c.imag != 0}
-    return len(real) <= 1 and len(imag) <= 1
-
-
-def _density_mirrors(orbital) -> tuple[bool, bool, bool]:
-    """Axes whose mirror plane maps |psi|^2 onto itself.
-
-    A two-centre combination keeps the x and y mirrors its parts share; it keeps z -> -z only if
-    both centres carry the same orbital (then psi has parity p * sign on z).
-    """
-    if getattr(orbital, "general", False):
-        a, b = orbital.a, orbital.b
-        both = list(a.basis) + list(b.basis)
-        same = a.spec == b.spec and a.length_charge == b.length_charge and a.potential is None
-        z = same and b.potential is None and _definite(list(a.basis), 2)
-        return _definite(both, 0), _definite(both, 1), z
-    terms = list(orbital.basis)
-    return _definite(terms, 0), _definite(terms, 1), _definite(terms, 2)
-
-
 def _symmetry_frame(orbital) -> np.ndarray | None:
     """Find an orthonormal frame (columns e1, e2, axis) with |psi|^2 symmetric about its axis.
 
@@ -373,7 +337,11 @@ class _Rays:
         dr_mass = r * r * 2.0 * r_max * u * du
         radial = {} if general else {(n, l): orbital.radial(n, l, r) for n, l in shells}
         frame = _symmetry_frame(orbital)  # columns e1, e2, axis; None: no axis of symmetry
-        mirror = (False, False, False) if frame is not None else _density_mirrors(orbital)
+        mirror = (
+            (False, False, False)
+            if frame is not None
+            else tuple(p != 0 for p in field_parity(orbital))
+        )
         # a mirror plane halves the range sampled, at the same density of rays, mass doubled
         t_low = 0.0 if mirror[2] else -1.0
         polar = DEFAULTS.ray_points * (l_top + 1) * refine * (16 if frame is not None else 1)

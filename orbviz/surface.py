@@ -170,19 +170,14 @@ def finish_body(body: Body, grid: Grid, *, colors: tuple[tuple[int, ...], ...]) 
     value, grad = grid.field.value_and_gradient(body.vertices, step=1e-3 * grid.spacing)
     length = np.linalg.norm(grad, axis=1, keepdims=True)
     length[length == 0] = 1.0
-    orbital = grid.field.orbital
-    if grid.field.kind == "signed" and body.name in _SHEET_SIGN:
+    if grid.field.kind == "signed":  # contour() names each such body after its sheet
         sign = _SHEET_SIGN[body.name]
         outward = (-sign / length) * grad
         phase = np.full(len(body.vertices), sign, dtype=np.float32)
         rgba = sign_colors(phase, colors)
     else:
         outward = -np.sign(value)[:, None] * grad / length
-        psi = orbital.psi(*body.vertices.T, dtype=np.float64)
-        if orbital.is_real:
-            phase = np.sign(psi).astype(np.float32)
-            rgba = sign_colors(phase, colors)
-        else:
-            phase = np.angle(psi).astype(np.float32)
-            rgba = phase_colors(phase)
+        psi = grid.field.orbital.psi(*body.vertices.T, dtype=np.float64)
+        phase = np.angle(psi).astype(np.float32)
+        rgba = phase_colors(phase)
     return Body(body.name, body.vertices, body.faces, outward.astype(np.float32), phase, rgba)

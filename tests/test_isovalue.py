@@ -183,14 +183,14 @@ def test_mirror_parity_of_real_harmonics(l, rng):
     # the mirror rule the ray quadrature halves its range by, against scipy's real harmonics
     # (tests/conftest.py): x -> -x is azimuth -> pi - azimuth, y -> -y is azimuth -> -azimuth,
     # z -> -z is polar -> pi - polar
-    from orbviz.isovalue import _term_parity
+    from orbviz.angular import mirror_parity
 
     polar, azimuth = np.arccos(rng.uniform(-1, 1, 50)), rng.uniform(0, 2 * math.pi, 50)
     mirrors = [(polar, math.pi - azimuth), (polar, -azimuth), (math.pi - polar, azimuth)]
     for m in range(-l, l + 1):
         value = reference_real_harmonic(l, m, polar, azimuth)
         for axis, (p, a) in enumerate(mirrors):
-            expected = _term_parity(l, m)[axis] * value
+            expected = mirror_parity(l, m)[axis] * value
             assert np.allclose(reference_real_harmonic(l, m, p, a), expected, atol=1e-12)
 
 
