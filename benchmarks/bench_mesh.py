@@ -63,10 +63,10 @@ print(json.dumps({"seconds": elapsed, "peak_rss_mb": peak,
 
 ORBVIZ = r"""
 import sys, time, json, resource
-from orbviz.orbital import Orbital
-from orbviz.mesh import build_mesh
+from orbviz.states.orbital import Orbital
+from orbviz.surface.mesh import build_mesh
 from orbviz.export import write_bodies
-import orbviz.surface, orbviz.export.gltf, trimesh, vtkmodules.vtkFiltersCore  # imports first
+import orbviz.surface.contour, orbviz.export.gltf, trimesh, vtkmodules.vtkFiltersCore  # noqa: E501
 spec, N, out = sys.argv[1], int(sys.argv[2]), sys.argv[3]
 t0 = time.perf_counter()
 result = build_mesh(Orbital.from_spec(spec), grid=N)
@@ -107,9 +107,9 @@ def main() -> None:
     repeats = 1 if quick else 5
     with tempfile.TemporaryDirectory() as tmp:
         glb = str(Path(tmp) / "m.glb")
-        from orbviz.grid import box_half_width
-        from orbviz.isovalue import enclosing_isovalue
-        from orbviz.orbital import Orbital
+        from orbviz.levels.grid import box_half_width
+        from orbviz.levels.isovalue import enclosing_isovalue
+        from orbviz.states.orbital import Orbital
 
         orbital = Orbital.from_spec(SPEC)
         width = box_half_width(orbital, enclosing_isovalue(orbital), N)  # same box for both

@@ -15,8 +15,8 @@ import time
 import numpy as np
 from _common import save
 
-from orbviz.numerical import _state, solve_radial
-from orbviz.potentials import Coulomb, Yukawa
+from orbviz.states.numerical import _state, solve_radial
+from orbviz.states.potentials import Coulomb, Yukawa
 
 
 def numerov_pass(energy: float, r: np.ndarray, l: int = 0) -> float:

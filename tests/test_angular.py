@@ -8,7 +8,7 @@ import numpy as np
 import pytest
 from scipy.special import sph_harm_y
 
-from orbviz.angular import LABELS, complex_harmonic, real_harmonic, solid_harmonic_real
+from orbviz.states.angular import LABELS, complex_harmonic, real_harmonic, solid_harmonic_real
 from tests.conftest import reference_real_harmonic
 
 

@@ -6,10 +6,10 @@ import json
 
 import pytest
 
-from orbviz.atoms import SYMBOLS, configuration, configuration_text, element, slater_charge
 from orbviz.cli import main
 from orbviz.errors import SpecError
-from orbviz.orbital import Orbital
+from orbviz.states.atoms import SYMBOLS, configuration, configuration_text, element, slater_charge
+from orbviz.states.orbital import Orbital
 
 # Slater's rules, Phys. Rev. 36, 57 (1930); these worked values appear in standard inorganic
 # chemistry textbooks (e.g. Housecroft & Sharpe, Inorganic Chemistry) -- from memory
@@ -91,7 +91,7 @@ def test_cli_info_and_mesh_for_a_screened_orbital(capsys, tmp_path):
 
 
 def test_scene_atom_key_prefixes_every_spec():
-    from orbviz.scene import SceneError, parse_scene
+    from orbviz.scenes.scene import SceneError, parse_scene
 
     items = parse_scene('[[shells]]\nn = 2\natom = "C"\n', "a.toml")
     assert [i.spec for i in items] == ["C:2s", "C:2px", "C:2py", "C:2pz"]

@@ -8,9 +8,9 @@ import math
 import numpy as np
 import pytest
 
-from orbviz.bond import parse_bond
 from orbviz.cli import main
-from orbviz.orbital import Orbital
+from orbviz.states.bond import parse_bond
+from orbviz.states.orbital import Orbital
 
 
 @pytest.mark.parametrize("R", [0.5, 1.0, 2.0, 4.0, 7.0])

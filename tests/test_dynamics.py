@@ -10,8 +10,8 @@ from scipy.constants import physical_constants
 from scipy.optimize import curve_fit
 
 from orbviz.cli import main
-from orbviz.dynamics import StationaryError, beat_period, evolve
-from orbviz.orbital import Orbital
+from orbviz.states.dynamics import StationaryError, beat_period, evolve
+from orbviz.states.orbital import Orbital
 
 
 def _quadrature(order=32, radial=160, rate=0.5):
@@ -68,8 +68,8 @@ def test_z_expectation_beats_with_the_codata_period():
 
 
 def test_frames_share_one_level_and_move(tmp_path):
-    from orbviz.animate import animate, write_animation
-    from orbviz.render import FigureOptions
+    from orbviz.figures.animate import animate, write_animation
+    from orbviz.figures.render import FigureOptions
 
     movie = animate(
         Orbital.from_spec("1s+2pz"), frames=6, grid=40, options=FigureOptions(size=(160, 120))

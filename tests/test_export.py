@@ -13,10 +13,10 @@ import pytest
 from scipy.constants import physical_constants
 
 from orbviz.cli import main
-from orbviz.colors import DEFAULT_PAIR
 from orbviz.export import write_bodies
-from orbviz.mesh import build_mesh
-from orbviz.orbital import Orbital
+from orbviz.states.orbital import Orbital
+from orbviz.surface.colors import DEFAULT_PAIR
+from orbviz.surface.mesh import build_mesh
 from tests.conftest import gltf_validator_dir
 
 
@@ -218,12 +218,12 @@ def test_failed_write_leaves_nothing_and_keeps_old_file(tmp_path, monkeypatch, c
     [("x.abc", "unknown suffix"), ("missing/x.stl", "does not exist"), ("x", "unknown suffix")],
 )
 def test_bad_output_refused_before_any_computation(tmp_path, monkeypatch, capsys, name, fragment):
-    import orbviz.mesh
+    import orbviz.surface.mesh
 
     def must_not_run(*args, **kwargs):
         raise AssertionError("computation started")
 
-    monkeypatch.setattr(orbviz.mesh, "build_mesh", must_not_run)
+    monkeypatch.setattr(orbviz.surface.mesh, "build_mesh", must_not_run)
     status = main(["mesh", "2pz", "-o", str(tmp_path / name)])
     err = capsys.readouterr().err
     assert status == 2 and fragment in err and err.count("\n") == 1

@@ -7,9 +7,9 @@ import math
 import numpy as np
 import pytest
 
-from orbviz.hybrids import HYBRIDS, hybrid_terms
-from orbviz.orbital import Orbital
-from orbviz.spec import parse_spec
+from orbviz.states.hybrids import HYBRIDS, hybrid_terms
+from orbviz.states.orbital import Orbital
+from orbviz.states.spec import parse_spec
 from tests.conftest import reference_psi
 
 
@@ -123,7 +123,7 @@ def test_whole_set_in_one_figure(tmp_path, capsys):
     from PIL import Image
 
     from orbviz.cli import main
-    from orbviz.render import SET_PALETTE
+    from orbviz.figures.render import SET_PALETTE
 
     out = tmp_path / "set.png"
     assert (
@@ -156,9 +156,9 @@ def test_whole_set_in_one_figure(tmp_path, capsys):
 
 
 def test_whole_set_as_one_model_with_disjoint_colour_parts(tmp_path, capsys):
-    from orbviz.checks import mesh_facts
-    from orbviz.model import _arrays, build_model
-    from orbviz.orbital import Orbital
+    from orbviz.models.model import _arrays, build_model
+    from orbviz.states.orbital import Orbital
+    from orbviz.surface.checks import mesh_facts
 
     orbitals = [Orbital.from_spec(f"2sp3[{k}]") for k in range(1, 5)]
     model = build_model(orbitals, size=50.0, fraction=0.5, grid=64)

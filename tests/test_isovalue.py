@@ -12,8 +12,8 @@ import pytest
 from scipy.optimize import brentq
 from scipy.special import sph_harm_y
 
-from orbviz.isovalue import check_isovalue, enclosed_probability, enclosing_isovalue
-from orbviz.orbital import Orbital
+from orbviz.levels.isovalue import check_isovalue, enclosed_probability, enclosing_isovalue
+from orbviz.states.orbital import Orbital
 from tests.conftest import (
     fine_axisymmetric,
     reference_radial,
@@ -183,7 +183,7 @@ def test_mirror_parity_of_real_harmonics(l, rng):
     # the mirror rule the ray quadrature halves its range by, against scipy's real harmonics
     # (tests/conftest.py): x -> -x is azimuth -> pi - azimuth, y -> -y is azimuth -> -azimuth,
     # z -> -z is polar -> pi - polar
-    from orbviz.angular import mirror_parity
+    from orbviz.states.angular import mirror_parity
 
     polar, azimuth = np.arccos(rng.uniform(-1, 1, 50)), rng.uniform(0, 2 * math.pi, 50)
     mirrors = [(polar, math.pi - azimuth), (polar, -azimuth), (math.pi - polar, azimuth)]

@@ -10,8 +10,8 @@ from scipy.optimize import brentq
 from scipy.special import sph_harm_y
 
 from orbviz.errors import ParameterError
-from orbviz.mesh import build_mesh
-from orbviz.orbital import Orbital
+from orbviz.states.orbital import Orbital
+from orbviz.surface.mesh import build_mesh
 from tests.conftest import fine_axisymmetric, reference_psi, reference_radial, sample_density
 
 # (spec, terms for the scipy reference): the default grid must meet the accuracy targets
@@ -167,9 +167,9 @@ def test_smoothing_and_decimation_stay_closed_and_recolour():
 
 
 def test_memory_refusal(monkeypatch):
-    import orbviz.grid
+    import orbviz.levels.grid
 
-    monkeypatch.setattr(orbviz.grid, "available_bytes", lambda: 2**30)
+    monkeypatch.setattr(orbviz.levels.grid, "available_bytes", lambda: 2**30)
     with pytest.raises(ParameterError, match=r"GiB"):
         build_mesh(Orbital.from_spec("2pz"), grid=1024)
 
@@ -193,8 +193,8 @@ def test_report_carries_the_checked_level_1s(meshes):
 
 @pytest.mark.parametrize("spec", ["3dz2", "3s", "4,2,1"])
 def test_numpy_checks_agree_with_trimesh(meshes, spec):
-    # orbviz.checks against trimesh's own volume, area, watertightness and split
-    from orbviz.checks import mesh_facts
+    # orbviz.surface.checks against trimesh's own volume, area, watertightness and split
+    from orbviz.surface.checks import mesh_facts
 
     for body in meshes[spec].bodies:
         facts = mesh_facts(body.vertices, body.faces)
@@ -206,7 +206,7 @@ def test_numpy_checks_agree_with_trimesh(meshes, spec):
 
 
 def test_checks_catch_an_open_mesh(meshes):
-    from orbviz.checks import mesh_facts
+    from orbviz.surface.checks import mesh_facts
 
     body = meshes["2pz"].bodies[0]
     facts = mesh_facts(body.vertices, body.faces[1:])  # one triangle removed: a hole
@@ -255,11 +255,11 @@ def test_no_note_for_textbook_shapes(meshes):
 def test_memory_check_counts_the_window(monkeypatch):
     # 3dz2 at 512^3: the whole box's estimate (field 537 MB + surface 738 MB) exceeds 80% of a
     # 1.3 GB allowance, the window's (its 27% of the box) does not; a behaviour check, no physics
-    import orbviz.grid
-    from orbviz.grid import estimate_bytes
+    import orbviz.levels.grid
+    from orbviz.levels.grid import estimate_bytes
 
     allowance = int(1.3e9)
-    monkeypatch.setattr(orbviz.grid, "available_bytes", lambda: allowance)
+    monkeypatch.setattr(orbviz.levels.grid, "available_bytes", lambda: allowance)
     assert estimate_bytes(512) > 0.8 * allowance
     result = build_mesh(Orbital.from_spec("3dz2"), grid=512)
     held = result.grid.values.shape

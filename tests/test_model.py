@@ -9,8 +9,8 @@ import pytest
 from scipy.optimize import brentq
 
 from orbviz.cli import main
-from orbviz.model import ModelError, build_model
-from orbviz.orbital import Orbital
+from orbviz.models.model import ModelError, build_model
+from orbviz.states.orbital import Orbital
 
 
 def _size(model) -> float:
@@ -25,8 +25,8 @@ def test_one_watertight_body_at_the_asked_size(spec):
     assert facts.watertight and facts.solids == 1
     assert _size(model) == pytest.approx(50.0, abs=1e-3)
     # the colour parts are closed and together make up the solid (disjoint: volumes add up)
-    from orbviz.checks import mesh_facts
-    from orbviz.model import _arrays
+    from orbviz.models.model import _arrays
+    from orbviz.surface.checks import mesh_facts
 
     volumes = [mesh_facts(*_arrays(p)).volume for p in model.parts.values()]
     assert all(mesh_facts(*_arrays(p)).closed for p in model.parts.values())
@@ -52,7 +52,7 @@ def test_cutaways_stay_watertight_and_open_the_shells(cut):
     facts = model.facts()
     assert facts.watertight and facts.solids == 1 and facts.cavities == 0  # ...a cut opens them
     assert _size(model) == pytest.approx(50.0, abs=1e-3)
-    from orbviz.model import _arrays
+    from orbviz.models.model import _arrays
 
     v, _ = _arrays(model.solid)
     removed = (v[:, 0] > 1e-4) if cut == "half" else (v[:, 0] > 1e-4) & (v[:, 1] > 1e-4)
@@ -65,7 +65,7 @@ def test_stand_gives_a_flat_base():
     model = build_model(Orbital.from_spec("2pz"), size=50.0, grid=96, stand=True)
     assert model.facts().watertight and model.facts().solids == 1
     assert not any("flat base" in c.message for c in model.checks)
-    from orbviz.model import _arrays
+    from orbviz.models.model import _arrays
 
     v, f = _arrays(model.solid)
     bottom = v[:, 2].min()

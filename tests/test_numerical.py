@@ -8,8 +8,8 @@ import numpy as np
 import pytest
 from scipy.optimize import minimize_scalar
 
-from orbviz.numerical import NoBoundState, solve_radial
-from orbviz.potentials import Coulomb, Harmonic, Tabulated, UserPotential, Yukawa
+from orbviz.states.numerical import NoBoundState, solve_radial
+from orbviz.states.potentials import Coulomb, Harmonic, Tabulated, UserPotential, Yukawa
 from tests.conftest import reference_radial
 
 HYDROGEN = [(n, l) for n in range(1, 6) for l in range(n)]

@@ -15,11 +15,11 @@ import pytest
 from scipy.special import gamma, gammainc
 
 from orbviz.cli import main
-from orbviz.isovalue import enclosing_isovalue
-from orbviz.mesh import build_mesh
-from orbviz.orbital import Orbital
-from orbviz.potentials import Harmonic
-from orbviz.scene import parse_scene
+from orbviz.levels.isovalue import enclosing_isovalue
+from orbviz.scenes.scene import parse_scene
+from orbviz.states.orbital import Orbital
+from orbviz.states.potentials import Harmonic
+from orbviz.surface.mesh import build_mesh
 
 W = 0.5
 
@@ -66,7 +66,7 @@ def test_mesh_vertices_on_the_level_of_a_harmonic_p_state():
 
 
 def test_scene_items_take_a_potential(tmp_path):
-    from orbviz.batch import run_scene
+    from orbviz.scenes.batch import run_scene
 
     items = parse_scene(
         '[defaults]\ngrid = 32\noutputs = ["stl"]\npotential = "yukawa:10"\n'

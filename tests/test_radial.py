@@ -11,7 +11,7 @@ from scipy import integrate
 from scipy.constants import physical_constants
 from sympy.physics.hydrogen import R_nl as sympy_R_nl
 
-from orbviz.radial import (
+from orbviz.states.radial import (
     energy_hartree,
     expectation_r,
     most_probable_radius,

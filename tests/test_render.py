@@ -10,9 +10,9 @@ from PIL import Image
 from scipy.constants import physical_constants
 
 from orbviz.cli import main
-from orbviz.colors import DEFAULT_PAIR
-from orbviz.orbital import Orbital
-from orbviz.render import FigureOptions, figure, render_png
+from orbviz.figures.render import FigureOptions, figure, render_png
+from orbviz.states.orbital import Orbital
+from orbviz.surface.colors import DEFAULT_PAIR
 
 SMALL = (400, 300)
 
@@ -77,7 +77,7 @@ def test_transparent_corners_and_no_halo(tmp_path):
 
 def test_view_presets_and_bad_view():
     from orbviz.errors import ParameterError
-    from orbviz.render import parse_view
+    from orbviz.figures.render import parse_view
 
     assert parse_view("x") == (0.0, 0.0) and parse_view("30,-10") == (30.0, -10.0)
     with pytest.raises(ParameterError):
@@ -87,7 +87,7 @@ def test_view_presets_and_bad_view():
 def test_scale_bar_length_in_angstrom(tmp_path):
     # the bar's pixel length equals its label in angstrom times pixels per angstrom, using the
     # CODATA Bohr radius (scipy.constants) and the orthographic view height
-    from orbviz.render import _BOHR_IN_ANGSTROM, _nice
+    from orbviz.figures.render import _BOHR_IN_ANGSTROM, _nice
 
     a0 = physical_constants["Bohr radius"][0] * 1e10
     assert _BOHR_IN_ANGSTROM == pytest.approx(a0, rel=1e-10)
@@ -162,7 +162,7 @@ def test_render_cli(tmp_path, capsys):
 
 
 def test_slice_marks_nodes_at_closed_form_radii():
-    from orbviz.plot import slice_figure
+    from orbviz.figures.plot import slice_figure
 
     _, data = slice_figure(Orbital.from_spec("3s"), plane="xz", points=801)
     # closed form (REFERENCES.md): 3s nodes at (9 -+ 3 sqrt3)/2 bohr
@@ -177,8 +177,8 @@ def test_slice_marks_nodes_at_closed_form_radii():
 
 
 def test_slice_isovalue_is_the_enclosing_level():
-    from orbviz.isovalue import enclosing_isovalue
-    from orbviz.plot import slice_figure
+    from orbviz.figures.plot import slice_figure
+    from orbviz.levels.isovalue import enclosing_isovalue
 
     orbital = Orbital.from_spec("2pz")
     _, data = slice_figure(orbital)
@@ -187,8 +187,8 @@ def test_slice_isovalue_is_the_enclosing_level():
 
 @pytest.mark.parametrize(("spec", "n", "l"), [("2s", 2, 0), ("3pz", 3, 1), ("3dz2", 3, 2)])
 def test_radial_plot_marks(spec, n, l):
-    from orbviz.plot import radial_figure
-    from orbviz.radial import radial_node_radii
+    from orbviz.figures.plot import radial_figure
+    from orbviz.states.radial import radial_node_radii
 
     _, data = radial_figure(Orbital.from_spec(spec))
     # <r> = [3n^2 - l(l+1)]/2 (Bethe & Salpeter); the marked maximum is the curve's maximum

@@ -10,11 +10,11 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from scipy.optimize import brentq
 
-from orbviz.fields import field_of
-from orbviz.grid import box_half_width, sample
-from orbviz.isovalue import Isovalue, enclosing_isovalue
-from orbviz.mesh import build_mesh
-from orbviz.orbital import Orbital
+from orbviz.levels.fields import field_of
+from orbviz.levels.grid import box_half_width, sample
+from orbviz.levels.isovalue import Isovalue, enclosing_isovalue
+from orbviz.states.orbital import Orbital
+from orbviz.surface.mesh import build_mesh
 from tests.conftest import reference_psi, reference_radial
 
 N = 64
@@ -176,17 +176,17 @@ def test_window_contours_to_the_whole_box_surface(spec, monkeypatch):
     # the same triangles as contouring all N^3 samples (window_start forced to 0); VTK's points
     # are float32, so positions agree to float32 rounding of the box size. (A check of the
     # shortcut against the plain path: the plain path is checked against scipy in test_mesh.)
-    import orbviz.grid
+    import orbviz.levels.grid
 
     if spec.startswith("harmonic:"):
-        from orbviz.potentials import Harmonic
+        from orbviz.states.potentials import Harmonic
 
         orbital = Orbital.from_spec(spec.split(":", 1)[1], potential=Harmonic(0.5))
     else:
         orbital = Orbital.from_spec(spec)
     windowed = build_mesh(orbital, grid=80)
     assert any(windowed.grid.start)
-    monkeypatch.setattr(orbviz.grid, "window_start", lambda *args: 0)
+    monkeypatch.setattr(orbviz.levels.grid, "window_start", lambda *args: 0)
     whole = build_mesh(orbital, grid=80)
     assert whole.grid.start == (0, 0, 0)
     for a, b in zip(windowed.bodies, whole.bodies, strict=True):
@@ -217,7 +217,7 @@ def test_random_one_shell_mixtures_sample_as_scipy_says(coefs, shell):
     # psi (tests/conftest.py) on the whole grid, and nothing outside the window at the level
     n, l = shell
     terms = [(c, n, l, m, "real") for c, m in zip(coefs, range(-2, 3), strict=True)]
-    from orbviz.angular import LABELS
+    from orbviz.states.angular import LABELS
 
     label = {lm: name for name, lm in LABELS.items()}
     spec = " + ".join(f"({c!r})*{n}{label[(l, m)]}" for c, _, _, m, _ in terms)

@@ -12,9 +12,9 @@ from pathlib import Path
 
 import pytest
 
-from orbviz.batch import run_scene
 from orbviz.cli import main
-from orbviz.scene import Item, SceneError, load_scene, parse_scene
+from orbviz.scenes.batch import run_scene
+from orbviz.scenes.scene import Item, SceneError, load_scene, parse_scene
 
 GALLERY = Path(__file__).resolve().parents[1] / "gallery_scenes"
 
@@ -264,10 +264,10 @@ def test_demo_runs(tmp_path, capsys):
 def test_figure_and_model_of_one_item_share_one_mesh(tmp_path, monkeypatch):
     # an item with a figure and a model contours its orbital once (not a check of physics: of
     # the work done); the model is still the one build_model makes on its own (same volume)
-    import orbviz.mesh
-    import orbviz.model
-    from orbviz.batch import run_item
-    from orbviz.orbital import Orbital
+    import orbviz.models.model
+    import orbviz.surface.mesh
+    from orbviz.scenes.batch import run_item
+    from orbviz.states.orbital import Orbital
 
     text = """
 [defaults]
@@ -281,18 +281,18 @@ spec = "2pz"
 """
     (item,) = parse_scene(text, "m.toml")
     calls = []
-    real = orbviz.mesh.build_mesh
+    real = orbviz.surface.mesh.build_mesh
 
     def counting(*args, **kwargs):
         calls.append(args[0])
         return real(*args, **kwargs)
 
-    monkeypatch.setattr(orbviz.mesh, "build_mesh", counting)
-    monkeypatch.setattr(orbviz.model, "build_mesh", counting)
+    monkeypatch.setattr(orbviz.surface.mesh, "build_mesh", counting)
+    monkeypatch.setattr(orbviz.models.model, "build_mesh", counting)
     entry = run_item(item, str(tmp_path))
     assert entry["status"] == "done", entry
     assert len(calls) == 1
-    alone = orbviz.model.build_model(Orbital.from_spec("2pz"), size=60, grid=32)
+    alone = orbviz.models.model.build_model(Orbital.from_spec("2pz"), size=60, grid=32)
     import trimesh
 
     written = trimesh.load(tmp_path / "2pz-model.stl")

@@ -11,8 +11,8 @@ from hypothesis import strategies as st
 from scipy.special import sph_harm_y
 
 from orbviz.errors import OrbvizError, QuantumNumberError, SpecError
-from orbviz.orbital import Orbital
-from orbviz.spec import parse_spec
+from orbviz.states.orbital import Orbital
+from orbviz.states.spec import parse_spec
 from tests.conftest import reference_radial, reference_real_harmonic
 
 

@@ -53,7 +53,7 @@ def write_bodies(
 
     Parameters
     ----------
-    bodies : list of orbviz.surface.Body
+    bodies : list of orbviz.surface.contour.Body
         Closed bodies, coordinates in bohr.
     path : path-like
         Output file; companions (``.mtl``, ``.bin``) go beside it, named after it.

@@ -18,8 +18,8 @@ import cmath
 import re
 from dataclasses import dataclass
 
-from orbviz.angular import LABELS
 from orbviz.errors import SpecError
+from orbviz.states.angular import LABELS
 
 __all__ = ["Atom", "parse_spec"]
 
@@ -89,7 +89,7 @@ def parse_spec(spec: str, /) -> list[Atom]:
     -------
     list of Atom
         In the order written; quantum numbers are checked for integrality here and for range by
-        :func:`orbviz.radial.check_quantum_numbers` when the orbital is built.
+        :func:`orbviz.states.radial.check_quantum_numbers` when the orbital is built.
 
     Raises
     ------
@@ -123,7 +123,7 @@ def parse_spec(spec: str, /) -> list[Atom]:
                 pos += 1
         state = _STATE_HYBRID.match(text, pos)
         if state:
-            from orbviz.hybrids import hybrid_terms
+            from orbviz.states.hybrids import hybrid_terms
 
             n = int(state.group("n"))
             for l, m, weight in hybrid_terms(n, state.group("name").lower(), int(state.group("k"))):

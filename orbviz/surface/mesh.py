@@ -9,14 +9,14 @@ from typing import Any
 import numpy as np
 
 from orbviz._defaults import DEFAULTS
-from orbviz.checks import mesh_facts
-from orbviz.colors import DEFAULT_PAIR
 from orbviz.errors import ParameterError
-from orbviz.fields import field_of
-from orbviz.grid import Grid, box_half_width, check_grid_points, sample
-from orbviz.isovalue import Isovalue, check_isovalue, enclosing_isovalue
-from orbviz.orbital import Orbital
-from orbviz.surface import Body, contour, finish_body
+from orbviz.levels.fields import field_of
+from orbviz.levels.grid import Grid, box_half_width, check_grid_points, sample
+from orbviz.levels.isovalue import Isovalue, check_isovalue, enclosing_isovalue
+from orbviz.states.orbital import Orbital
+from orbviz.surface.checks import mesh_facts
+from orbviz.surface.colors import DEFAULT_PAIR
+from orbviz.surface.contour import Body, contour, finish_body
 
 __all__ = ["OrbitalMesh", "build_mesh", "decimate", "smooth"]
 
@@ -190,7 +190,7 @@ def build_mesh(
         Use this level instead of solving for ``fraction`` (frames of one animation share it).
     window : bool, default: True
         Sample only the window the surface reaches (``level.axis_reach`` or ``max_radius``; see
-        :func:`orbviz.grid.sample`). Pass False when ``level`` does not bound this state's
+        :func:`orbviz.levels.grid.sample`). Pass False when ``level`` does not bound this state's
         surface, as a level shared by the frames of an animation does not.
 
     Returns

@@ -24,8 +24,8 @@ import numpy as np
 
 from orbviz._defaults import DEFAULTS
 from orbviz.errors import ParameterError
-from orbviz.fields import field_parity
-from orbviz.orbital import Orbital
+from orbviz.levels.fields import field_parity
+from orbviz.states.orbital import Orbital
 
 __all__ = ["Isovalue", "check_isovalue", "enclosed_probability", "enclosing_isovalue"]
 

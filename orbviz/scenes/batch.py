@@ -18,7 +18,7 @@ from pathlib import Path
 from typing import Any
 
 from orbviz.errors import OrbvizError
-from orbviz.scene import Item
+from orbviz.scenes.scene import Item
 
 __all__ = ["MANIFEST", "run_item", "run_scene", "write_contact_sheet"]
 
@@ -28,8 +28,8 @@ _THUMB = (320, 240)
 
 
 def _figure_options(item: Item, size=None):
-    from orbviz.colors import DEFAULT_PAIR, parse_colors
-    from orbviz.render import FigureOptions, parse_view
+    from orbviz.figures.render import FigureOptions, parse_view
+    from orbviz.surface.colors import DEFAULT_PAIR, parse_colors
 
     r = dict(item.settings["render"])
     w, h = (int(v) for v in r.pop("size", "1600x1200").lower().split("x"))
@@ -61,8 +61,8 @@ def run_item(item: Item, out_dir: str) -> dict[str, Any]:
     entry: dict[str, Any] = {"name": item.name, "spec": item.spec, "hash": item.digest}
     try:
         from orbviz.export import write_bodies
-        from orbviz.mesh import build_mesh
-        from orbviz.scene import orbital_of
+        from orbviz.scenes.scene import orbital_of
+        from orbviz.surface.mesh import build_mesh
 
         s = item.settings
         orbital = orbital_of(item.spec, s)
@@ -78,7 +78,7 @@ def run_item(item: Item, out_dir: str) -> dict[str, Any]:
         )
         for suffix in (o for o in outputs if o in _MESH_SUFFIXES):
             files += write_bodies(mesh.bodies, out / f"{item.name}.{suffix}")
-        from orbviz.render import figure, render_png
+        from orbviz.figures.render import figure, render_png
 
         thumbs = out / "thumbs"
         thumbs.mkdir(exist_ok=True)
@@ -135,7 +135,7 @@ def _shrink(png: Path, thumb: Path) -> None:
 def _models(item: Item, orbital, out: Path, colors, mesh=None) -> list[Path]:
     from orbviz.export.stl import write as write_stl
     from orbviz.export.threemf import write as write_3mf
-    from orbviz.model import build_model
+    from orbviz.models.model import build_model
 
     m = item.settings["model"]
     model = build_model(
@@ -202,7 +202,7 @@ def run_scene(
     Parameters
     ----------
     items : list of Item
-        From :func:`orbviz.scene.load_scene`.
+        From :func:`orbviz.scenes.scene.load_scene`.
     out_dir : path-like
         Output folder (created if missing).
     executor : concurrent.futures.Executor, optional

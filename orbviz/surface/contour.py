@@ -16,9 +16,9 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from orbviz.colors import phase_colors, sign_colors
 from orbviz.errors import OrbvizError
-from orbviz.grid import Grid
+from orbviz.levels.grid import Grid
+from orbviz.surface.colors import phase_colors, sign_colors
 
 __all__ = ["Body", "NoSurfaceError", "contour", "finish_body"]
 

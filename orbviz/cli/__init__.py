@@ -88,7 +88,7 @@ def _add_orbital_options(parser: argparse.ArgumentParser) -> None:
 
 
 def _orbital(args: argparse.Namespace):
-    from orbviz.orbital import Orbital, proton_mass_ratio
+    from orbviz.states.orbital import Orbital, proton_mass_ratio
 
     ratio = 1.0
     if args.nuclear_mass is not None:
@@ -107,7 +107,7 @@ def _orbital(args: argparse.Namespace):
         ratio = proton_mass_ratio()
     potential = None
     if getattr(args, "potential", None):
-        from orbviz.potentials import parse_potential
+        from orbviz.states.potentials import parse_potential
 
         potential = parse_potential(args.potential, Z=1.0 if args.Z is None else args.Z)
         return Orbital.from_spec(args.spec, real=args.real, mass_ratio=ratio, potential=potential)
@@ -118,7 +118,7 @@ def _set_orbitals(args: argparse.Namespace):
     """Return the members of a hybrid set named without an index (``2sp3``), or None."""
     from argparse import Namespace
 
-    from orbviz.hybrids import hybrid_set
+    from orbviz.states.hybrids import hybrid_set
 
     members = hybrid_set(args.spec)
     if members is None:
@@ -127,7 +127,7 @@ def _set_orbitals(args: argparse.Namespace):
 
 
 def _cmd_info(args: argparse.Namespace) -> int:
-    from orbviz.summary import format_summary, summarise
+    from orbviz.levels.summary import format_summary, summarise
 
     info = summarise(_orbital(args), fraction=args.fraction)
     if args.json:
@@ -162,8 +162,8 @@ def _write_json(path: str, data: dict) -> None:
 
 
 def _cmd_mesh(args: argparse.Namespace) -> int:
-    from orbviz.colors import DEFAULT_PAIR, parse_colors
     from orbviz.export import check_output, unit_scale, write_bodies
+    from orbviz.surface.colors import DEFAULT_PAIR, parse_colors
 
     out = check_output(args.output)
     if args.report:
@@ -171,7 +171,7 @@ def _cmd_mesh(args: argparse.Namespace) -> int:
     unit_scale(args.units)
     colors = parse_colors(args.colors) if args.colors else DEFAULT_PAIR
     orbital = _orbital(args)
-    from orbviz.mesh import build_mesh
+    from orbviz.surface.mesh import build_mesh
 
     result = build_mesh(
         orbital,
@@ -219,11 +219,11 @@ def _size(text: str) -> tuple[int, int]:
 
 
 def _cmd_render(args: argparse.Namespace) -> int:
-    from orbviz.colors import DEFAULT_PAIR, parse_colors
     from orbviz.export import check_output
+    from orbviz.surface.colors import DEFAULT_PAIR, parse_colors
 
     out = check_output(args.output, suffixes={".png": None})
-    from orbviz.render import FigureOptions, parse_view
+    from orbviz.figures.render import FigureOptions, parse_view
 
     options = FigureOptions(
         size=args.size,
@@ -243,14 +243,14 @@ def _cmd_render(args: argparse.Namespace) -> int:
     ).checked()
     orbitals = _set_orbitals(args)
     if orbitals:  # a whole hybrid set in one figure
-        from orbviz.render import render_png, set_figure
+        from orbviz.figures.render import render_png, set_figure
 
         fig = set_figure(orbitals, fraction=args.fraction, grid=args.grid, options=options)
         render_png(fig, out)
         print(f"wrote {out}: the {len(orbitals)} {args.spec} hybrids in one figure")
         return 0
     orbital = _orbital(args)
-    from orbviz.render import figure, render_png
+    from orbviz.figures.render import figure, render_png
 
     fig = figure(orbital, fraction=args.fraction, grid=args.grid, options=options)
     _print_notes(fig.mesh.notes)
@@ -265,7 +265,7 @@ def _cmd_plot(args: argparse.Namespace) -> int:
 
     out = check_output(args.output, suffixes={".png": None, ".svg": None, ".pdf": None})
     orbital = _orbital(args)
-    from orbviz.plot import radial_figure, save_figure, slice_figure
+    from orbviz.figures.plot import radial_figure, save_figure, slice_figure
 
     if args.kind == "slice":
         fig, _ = slice_figure(
@@ -281,8 +281,8 @@ def _cmd_plot(args: argparse.Namespace) -> int:
 def _cmd_model(args: argparse.Namespace) -> int:
     from pathlib import Path
 
-    from orbviz.colors import DEFAULT_PAIR, parse_colors
     from orbviz.export import check_output
+    from orbviz.surface.colors import DEFAULT_PAIR, parse_colors
 
     out = check_output(args.output, suffixes={".stl": None, ".3mf": None})
     if args.split and out.suffix.lower() != ".stl":
@@ -291,7 +291,7 @@ def _cmd_model(args: argparse.Namespace) -> int:
         check_output(args.report, suffixes={".json": None})
     colors = parse_colors(args.colors) if args.colors else DEFAULT_PAIR
     orbital = _set_orbitals(args) or _orbital(args)  # a hybrid set (2sp3) makes one model
-    from orbviz.model import build_model
+    from orbviz.models.model import build_model
 
     model = build_model(
         orbital,
@@ -350,7 +350,7 @@ def _cmd_model(args: argparse.Namespace) -> int:
 
 
 def _run_batch(items, out: str, args: argparse.Namespace, title: str) -> int:
-    from orbviz.batch import run_scene
+    from orbviz.scenes.batch import run_scene
 
     manifest = run_scene(
         items, out, jobs=args.jobs, force=args.force, progress=not args.no_progress, title=title
@@ -384,7 +384,7 @@ def _cmd_batch(args: argparse.Namespace) -> int:
     import tomllib
     from pathlib import Path
 
-    from orbviz.scene import load_scene
+    from orbviz.scenes.scene import load_scene
 
     out = _batch_folder(args.output)
     items = load_scene(args.scene)
@@ -396,7 +396,7 @@ def _cmd_demo(args: argparse.Namespace) -> int:
     import tomllib
     from importlib.resources import files
 
-    from orbviz.scene import parse_scene
+    from orbviz.scenes.scene import parse_scene
 
     out = _batch_folder(args.output)
     text = files("orbviz").joinpath("data/demo.toml").read_text()
@@ -437,10 +437,10 @@ def _cmd_animate(args: argparse.Namespace) -> int:
     parent = out.parent if out.suffix else out.resolve().parent
     if not parent.is_dir():
         raise ParameterError(f"cannot write {args.output!r}: folder {str(parent)!r} does not exist")
-    from orbviz.render import FigureOptions
+    from orbviz.figures.render import FigureOptions
 
     orbital = _orbital(args)
-    from orbviz.animate import animate, write_animation
+    from orbviz.figures.animate import animate, write_animation
 
     movie = animate(
         orbital,

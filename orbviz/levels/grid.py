@@ -26,9 +26,9 @@ import numpy as np
 
 from orbviz._defaults import DEFAULTS
 from orbviz.errors import ParameterError
-from orbviz.fields import Field
-from orbviz.isovalue import Isovalue
-from orbviz.orbital import Orbital
+from orbviz.levels.fields import Field
+from orbviz.levels.isovalue import Isovalue
+from orbviz.states.orbital import Orbital
 
 __all__ = [
     "Grid",

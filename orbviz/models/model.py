@@ -16,12 +16,12 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from orbviz._defaults import DEFAULTS
-from orbviz.checks import mesh_facts
-from orbviz.colors import DEFAULT_PAIR
 from orbviz.errors import OrbvizError, ParameterError
-from orbviz.mesh import OrbitalMesh, build_mesh
-from orbviz.orbital import Orbital
-from orbviz.surface import Body
+from orbviz.states.orbital import Orbital
+from orbviz.surface.checks import mesh_facts
+from orbviz.surface.colors import DEFAULT_PAIR
+from orbviz.surface.contour import Body
+from orbviz.surface.mesh import OrbitalMesh, build_mesh
 
 __all__ = ["Check", "ModelError", "PrintModel", "build_model"]
 
@@ -69,7 +69,7 @@ class PrintModel:
     checks: list[Check] = field(default_factory=list)
 
     def bodies(self, which: str = "solid") -> list[Body]:
-        """Return the solid, or the parts, as :class:`orbviz.surface.Body` objects for writers."""
+        """Return the solid, or the parts, as bodies for the writers."""
         items = {"solid": self.solid} if which == "solid" else self.parts
         out = []
         for name, manifold in items.items():
@@ -89,7 +89,7 @@ class PrintModel:
         return out
 
     def facts(self):
-        """Volume, closedness and pieces of the solid (orbviz.checks)."""
+        """Volume, closedness and pieces of the solid (orbviz.surface.checks)."""
         return mesh_facts(*_arrays(self.solid))
 
 
@@ -234,7 +234,7 @@ def build_model(
     cut : {None, "half", "quarter"}
         Remove x > 0 (half) or x > 0, y > 0 (quarter) to show nested shells.
     fraction, grid, colors
-        As for :func:`orbviz.mesh.build_mesh`.
+        As for :func:`orbviz.surface.mesh.build_mesh`.
     mesh : OrbitalMesh, optional
         This orbital's mesh, if already built with these settings (a batch item's figure and
         model share one); it is read, not changed.
@@ -288,7 +288,7 @@ def build_model(
         "support": SUPPORT_RGBA,
     }
     if members:
-        from orbviz.render import SET_PALETTE
+        from orbviz.figures.render import SET_PALETTE
 
         for k in range(len(members)):
             colours[f"lobe-{k + 1}"] = (*SET_PALETTE[k % len(SET_PALETTE)], 255)
@@ -306,8 +306,8 @@ def _set_mesh(orbitals, fraction: float, grid: int) -> OrbitalMesh:
     The members share one box; each keeps only its positive body (its large lobe). The small
     lobes would overlap the others' and are left out of a printed set.
     """
-    from orbviz.grid import box_half_width
-    from orbviz.isovalue import enclosing_isovalue
+    from orbviz.levels.grid import box_half_width
+    from orbviz.levels.isovalue import enclosing_isovalue
 
     isos = [enclosing_isovalue(o, fraction=fraction) for o in orbitals]
     width = max(box_half_width(o, i, grid) for o, i in zip(orbitals, isos, strict=True))

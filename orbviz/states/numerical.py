@@ -24,7 +24,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from orbviz.errors import OrbvizError, ParameterError
-from orbviz.potentials import Potential
+from orbviz.states.potentials import Potential
 
 __all__ = ["NoBoundState", "RadialSolution", "solve_radial"]
 
@@ -160,7 +160,7 @@ def solve_radial(
     NoBoundState
         If that state lies at or above the potential's value at infinity.
     """
-    from orbviz.radial import check_quantum_numbers
+    from orbviz.states.radial import check_quantum_numbers
 
     n, l, _ = check_quantum_numbers(n, l)
     if points < 200:

@@ -15,8 +15,8 @@ import numpy as np
 
 from orbviz._defaults import DEFAULTS
 from orbviz.errors import ParameterError
-from orbviz.isovalue import enclosing_isovalue
-from orbviz.orbital import Orbital
+from orbviz.levels.isovalue import enclosing_isovalue
+from orbviz.states.orbital import Orbital
 
 __all__ = ["RadialData", "SliceData", "radial_figure", "save_figure", "slice_figure"]
 
@@ -176,8 +176,8 @@ def radial_figure(orbital: Orbital, /, *, title: str | None = None):
     """
     from matplotlib.figure import Figure
 
-    from orbviz.grid import radial_quantile
-    from orbviz.summary import mean_radius, most_probable_radius_of
+    from orbviz.levels.grid import radial_quantile
+    from orbviz.levels.summary import mean_radius, most_probable_radius_of
 
     r_max = radial_quantile(orbital, 0.9995)
     r = np.linspace(0.0, r_max, 4001)

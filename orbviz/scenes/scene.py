@@ -2,7 +2,7 @@
 
 A scene has a ``[defaults]`` table, ``[[orbital]]`` items (one spec each), and ``[[shells]]``
 items that expand to every real orbital of the listed shells. This module reads and validates
-the file into plain :class:`Item` records; :mod:`orbviz.batch` runs them.
+the file into plain :class:`Item` records; :mod:`orbviz.scenes.batch` runs them.
 """
 
 from __future__ import annotations
@@ -18,8 +18,8 @@ from typing import Any
 
 from orbviz import __version__
 from orbviz._defaults import DEFAULTS
-from orbviz.angular import LABELS
 from orbviz.errors import OrbvizError
+from orbviz.states.angular import LABELS
 
 __all__ = ["OUTPUTS", "Item", "SceneError", "load_scene", "parse_scene"]
 
@@ -176,10 +176,10 @@ def _shell_specs(n: int) -> list[str]:
 
 def orbital_of(spec: str, settings: dict):
     """Build an item's orbital (with its potential, if the item names one)."""
-    from orbviz.orbital import Orbital
+    from orbviz.states.orbital import Orbital
 
     if settings.get("potential"):
-        from orbviz.potentials import parse_potential
+        from orbviz.states.potentials import parse_potential
 
         Z = 1.0 if settings["Z"] is None else settings["Z"]
         return Orbital.from_spec(

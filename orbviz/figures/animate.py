@@ -10,10 +10,10 @@ from pathlib import Path
 import numpy as np
 
 from orbviz._defaults import DEFAULTS
-from orbviz.dynamics import Beat, beat_period, evolve
 from orbviz.errors import OutputError, ParameterError
-from orbviz.isovalue import Isovalue, enclosing_isovalue
-from orbviz.orbital import Orbital
+from orbviz.levels.isovalue import Isovalue, enclosing_isovalue
+from orbviz.states.dynamics import Beat, beat_period, evolve
+from orbviz.states.orbital import Orbital
 
 __all__ = ["Animation", "animate", "write_animation", "write_gltf_animation"]
 
@@ -73,9 +73,9 @@ def animate(
     StationaryError
         For a superposition of degenerate states (it does not move).
     """
-    from orbviz.grid import box_half_width
-    from orbviz.mesh import build_mesh
-    from orbviz.render import FigureOptions, _polys, figure
+    from orbviz.figures.render import FigureOptions, _polys, figure
+    from orbviz.levels.grid import box_half_width
+    from orbviz.surface.mesh import build_mesh
 
     if not (isinstance(frames, int) and 2 <= frames <= 1000):
         raise ParameterError(f"--frames must be a whole number from 2 to 1000, got {frames!r}")

@@ -8,7 +8,7 @@ Which field depends on the state (see ../docs/meshes.md):
 * ``modulus``: any other complex state: |psi|, contoured at +sqrt(level).
 
 The expression is built from exact polynomial coefficients: solid harmonics r^l S_lm expanded in
-monomials of x, y, z (the same normalised recurrence as :mod:`orbviz.angular`), Laguerre
+monomials of x, y, z (the same normalised recurrence as :mod:`orbviz.states.angular`), Laguerre
 polynomials by Horner's rule, so no trigonometry and no division appear. numexpr evaluates it in
 float64 blocks that stay in cache and stores float32 when asked.
 """
@@ -23,10 +23,10 @@ from dataclasses import dataclass, field
 import numpy as np
 import numpy.typing as npt
 
-from orbviz.angular import mirror_parity
 from orbviz.errors import ParameterError
-from orbviz.orbital import Orbital
-from orbviz.radial import _log_norm
+from orbviz.states.angular import mirror_parity
+from orbviz.states.orbital import Orbital
+from orbviz.states.radial import _log_norm
 
 __all__ = ["Field", "field_of", "field_parity"]
 
@@ -50,7 +50,7 @@ def _add(a: Poly, b: Poly, scale: float = 1.0) -> Poly:
 
 
 def _theta_poly(l: int, m: int) -> Poly:
-    """S_l^m(z, r^2) of :func:`orbviz.angular._theta_polynomial` as a polynomial in x, y, z."""
+    """S_l^m(z, r^2) of the angular recurrence as a polynomial in x, y, z."""
     c = math.sqrt((2 * m + 1) / (4 * math.pi))
     for k in range(1, m + 1):
         c *= math.sqrt((2 * k - 1) / (2 * k))

@@ -2,7 +2,7 @@
 
 Everything is in atomic units: r in bohr, energies in hartree. ``Z`` here is the charge that sets
 the length scale; a reduced-mass correction enters as ``Z * mass_ratio`` (see
-:class:`orbviz.orbital.Orbital`).
+:class:`orbviz.states.orbital.Orbital`).
 """
 
 from __future__ import annotations

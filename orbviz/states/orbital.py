@@ -12,9 +12,9 @@ import numpy as np
 import numpy.typing as npt
 
 from orbviz._defaults import DEFAULTS
-from orbviz.angular import label_of, solid_harmonic_real
 from orbviz.errors import ParameterError, SpecError
-from orbviz.radial import (
+from orbviz.states.angular import label_of, solid_harmonic_real
+from orbviz.states.radial import (
     check_charge,
     check_quantum_numbers,
     energy_hartree,
@@ -23,7 +23,7 @@ from orbviz.radial import (
     radial_function_reduced,
     radial_node_radii,
 )
-from orbviz.spec import Atom, parse_spec
+from orbviz.states.spec import Atom, parse_spec
 
 __all__ = ["Orbital", "proton_mass_ratio"]
 
@@ -44,7 +44,7 @@ def _real_basis(atom: Atom) -> dict[tuple[int, int, int], complex]:
     """Expand one atom in the orthonormal real basis (n, l, m_real).
 
     Y_l^m = (-1)^m (S_m + i S_-m)/sqrt2 for m > 0, Y_l^-m = (S_m - i S_-m)/sqrt2, Y_l^0 = S_0,
-    which inverts the definition of the real harmonics in :mod:`orbviz.angular`.
+    which inverts the definition of the real harmonics in :mod:`orbviz.states.angular`.
     """
     n, l, m, c = atom.n, atom.l, atom.m, atom.coefficient
     if atom.form == "real" or m == 0:
@@ -81,9 +81,9 @@ class Orbital:
         Remarks for the user (normalisation applied, global phase removed).
     element : str or None
         For a screened orbital (``Na:3s``), the element whose Slater charge is ``Z``.
-    potential : orbviz.potentials.Potential or None
+    potential : orbviz.states.potentials.Potential or None
         A central potential other than -Z/r; its radial functions are solved numerically
-        (:mod:`orbviz.numerical`), one solution per (n, l), kept in ``solutions``.
+        (:mod:`orbviz.states.numerical`), one solution per (n, l), kept in ``solutions``.
 
     Notes
     -----
@@ -114,7 +114,7 @@ class Orbital:
         mass_ratio: float = 1.0,
         potential=None,
     ) -> Orbital:
-        """Parse spec text (see :mod:`orbviz.spec`) into a normalised orbital.
+        """Parse spec text (see :mod:`orbviz.states.spec`) into a normalised orbital.
 
         Parameters
         ----------
@@ -126,11 +126,11 @@ class Orbital:
             Read ``n,l,m`` states as real combinations rather than Lz eigenstates.
         mass_ratio : float, default: 1.0
             Reduced mass over electron mass; see :func:`proton_mass_ratio`.
-        potential : orbviz.potentials.Potential, optional
+        potential : orbviz.states.potentials.Potential, optional
             Solve the radial functions numerically in this potential instead of -Z/r.
         """
         if isinstance(spec, str) and spec.lstrip().lower().startswith("bond"):
-            from orbviz.bond import parse_bond
+            from orbviz.states.bond import parse_bond
 
             bond = parse_bond(spec, Z=Z)
             if bond is None:
@@ -168,8 +168,8 @@ class Orbital:
 
     @classmethod
     def _screened(cls, symbol: str, atoms, Z, mass_ratio: float, spec: str) -> Orbital:
-        """Build a hydrogen-like orbital with Slater's effective charge (orbviz.atoms)."""
-        from orbviz.atoms import SYMBOLS, configuration_text, element, slater_charge
+        """Build a hydrogen-like orbital with Slater's effective charge (orbviz.states.atoms)."""
+        from orbviz.states.atoms import SYMBOLS, configuration_text, element, slater_charge
 
         if Z is not None:
             raise SpecError(f"{spec!r}: the element prefix sets the charge; leave out Z")
@@ -339,7 +339,7 @@ class Orbital:
 
     def in_potential(self, potential) -> Orbital:
         """Return the same state with radial functions solved numerically in ``potential``."""
-        from orbviz.numerical import solve_radial
+        from orbviz.states.numerical import solve_radial
 
         solutions = {(n, l): solve_radial(potential, n, l) for n, l in self.shells}
         note = f"radial functions solved numerically in {potential.describe()}"

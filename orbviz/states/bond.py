@@ -27,7 +27,7 @@ _BOND = re.compile(
 
 
 def _centred(spec: str, Z: float):
-    from orbviz.orbital import Orbital
+    from orbviz.states.orbital import Orbital
 
     orbital = Orbital.from_spec(spec, Z=Z)
     if orbital.eigenstate is None or not orbital.is_real:

@@ -67,7 +67,7 @@ def hybrid_terms(n: int, name: str, index: int) -> list[tuple[int, int, float]]:
         raise SpecError(f"{name} has hybrids [1] to [{len(members)}], got [{index}]")
     if "d" in name and n < 3:
         raise SpecError(f"{n}{name}[{index}] needs d orbitals of the same shell: use n >= 3")
-    from orbviz.angular import LABELS
+    from orbviz.states.angular import LABELS
 
     out = []
     for label, coef in members[index - 1].items():

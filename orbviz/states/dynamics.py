@@ -12,7 +12,7 @@ from dataclasses import dataclass, replace
 from fractions import Fraction
 
 from orbviz.errors import OrbvizError
-from orbviz.orbital import Orbital
+from orbviz.states.orbital import Orbital
 
 __all__ = ["StationaryError", "atomic_time_fs", "beat_period", "evolve"]
 

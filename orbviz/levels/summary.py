@@ -8,9 +8,9 @@ from typing import Any
 import numpy as np
 
 from orbviz._defaults import DEFAULTS
-from orbviz.isovalue import enclosing_isovalue
-from orbviz.orbital import Orbital
-from orbviz.radial import (
+from orbviz.levels.isovalue import enclosing_isovalue
+from orbviz.states.orbital import Orbital
+from orbviz.states.radial import (
     expectation_r,
     most_probable_radius,
 )
@@ -40,7 +40,7 @@ def radial_matrix_element(n1: int, n2: int, l: int, power: int, *, Z: float = 1.
     """
     from numpy.polynomial.laguerre import laggauss
 
-    from orbviz.radial import radial_function
+    from orbviz.states.radial import radial_function
 
     rate = Z * (1.0 / n1 + 1.0 / n2)
     nodes, weights = laggauss(max(2, (n1 + n2 + power + 2) // 2 + 1))

@@ -19,10 +19,10 @@ from pathlib import Path
 import numpy as np
 
 from orbviz._defaults import DEFAULTS
-from orbviz.colors import DEFAULT_PAIR, phase_colors
 from orbviz.errors import ParameterError
-from orbviz.mesh import OrbitalMesh, build_mesh
-from orbviz.orbital import Orbital
+from orbviz.states.orbital import Orbital
+from orbviz.surface.colors import DEFAULT_PAIR, phase_colors
+from orbviz.surface.mesh import OrbitalMesh, build_mesh
 
 __all__ = ["Figure", "FigureOptions", "figure", "parse_view", "render_png", "set_figure"]
 
@@ -320,7 +320,7 @@ def _node_overlays(fig: Figure, radius: float) -> None:
             )
             fig.overlays.setdefault("angular_nodes", []).append(name)
     # l - |m| roots of the polar factor in cos(polar): cones (or the xy plane at 90 degrees)
-    from orbviz.angular import real_harmonic
+    from orbviz.states.angular import real_harmonic
 
     polar = np.linspace(1e-6, math.pi - 1e-6, 20001)
     az0 = 0.0 if m >= 0 else math.pi / (2 * max(mm, 1))
@@ -560,8 +560,8 @@ def set_figure(
     palette; the negative bodies (the small lobes) translucent grey. All share one box and one
     framing.
     """
-    from orbviz.grid import box_half_width
-    from orbviz.isovalue import enclosing_isovalue
+    from orbviz.levels.grid import box_half_width
+    from orbviz.levels.isovalue import enclosing_isovalue
 
     opts = (options or FigureOptions()).checked()
     isos = [enclosing_isovalue(o, fraction=fraction) for o in orbitals]

@@ -1,0 +1,1 @@
+"""Levels: the signed field on a grid and the density level that encloses a probability."""

@@ -1,0 +1,1 @@
+"""Models: printable solids in millimetres."""

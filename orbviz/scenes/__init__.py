@@ -1,0 +1,1 @@
+"""Scenes: scene files, the batch runner and the contact sheet."""

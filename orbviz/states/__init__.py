@@ -1,0 +1,1 @@
+"""States: radial and angular functions, the spec grammar and every kind of orbital."""

@@ -1,0 +1,1 @@
+"""Surface: closed, phase-coloured bodies contoured from the sampled field."""
