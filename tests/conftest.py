@@ -96,3 +96,10 @@ def fine_axisymmetric(psi_of, level: float, r_max: float) -> float:
         mass = d * (r * r)[None, :] * (r_max / nr) * (2.0 / nt) * 2 * math.pi
         total += mass[d >= level].sum()
     return total
+
+
+def as_trimesh(body):
+    """A body as a plain trimesh.Trimesh (trimesh as an independent checker of closedness)."""
+    import trimesh
+
+    return trimesh.Trimesh(vertices=body.vertices, faces=body.faces, process=False)

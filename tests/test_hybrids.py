@@ -123,7 +123,7 @@ def test_whole_set_in_one_figure(tmp_path, capsys):
     from PIL import Image
 
     from orbviz.cli import main
-    from orbviz.figures.render import SET_PALETTE
+    from orbviz.surface.colors import SET_PALETTE
 
     out = tmp_path / "set.png"
     assert (
@@ -156,12 +156,14 @@ def test_whole_set_in_one_figure(tmp_path, capsys):
 
 
 def test_whole_set_as_one_model_with_disjoint_colour_parts(tmp_path, capsys):
-    from orbviz.models.model import _arrays, build_model
+    from orbviz.models.build import build_model
+    from orbviz.models.options import ModelOptions
+    from orbviz.models.solids import arrays as _arrays
     from orbviz.states.orbital import Orbital
     from orbviz.surface.checks import mesh_facts
 
     orbitals = [Orbital.from_spec(f"2sp3[{k}]") for k in range(1, 5)]
-    model = build_model(orbitals, size=50.0, fraction=0.5, grid=64)
+    model = build_model(orbitals, ModelOptions(size_mm=50.0, grid=64), fraction=0.5)
     facts = model.facts()
     assert facts.watertight and facts.solids == 1
     assert sorted(model.parts) == ["lobe-1", "lobe-2", "lobe-3", "lobe-4", "support"]

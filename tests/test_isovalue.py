@@ -12,6 +12,7 @@ import pytest
 from scipy.optimize import brentq
 from scipy.special import sph_harm_y
 
+from orbviz import state
 from orbviz.levels.isovalue import check_isovalue, enclosed_probability, enclosing_isovalue
 from orbviz.states.orbital import Orbital
 from tests.conftest import (
@@ -50,7 +51,7 @@ def test_1s_against_closed_form(fraction, Z):
 )
 def test_p_d_f_against_monte_carlo(spec, nlm, rng):
     count = 400_000
-    iso = enclosing_isovalue(Orbital.from_spec(spec))
+    iso = enclosing_isovalue(state(spec))
     dens = sample_density(*nlm, count, rng)
     estimate = np.mean(dens >= iso.level)
     sigma = math.sqrt(0.9 * 0.1 / count)  # binomial standard error
@@ -63,7 +64,7 @@ def test_p_d_f_against_monte_carlo(spec, nlm, rng):
 )
 def test_p_d_and_complex_against_fine_grid(spec, n, l, m):
     # a complex eigenstate's density |R Y_l^m|^2 does not depend on azimuth
-    iso = enclosing_isovalue(Orbital.from_spec(spec))
+    iso = enclosing_isovalue(state(spec))
 
     def psi(r, t):
         return reference_radial(n, l, r) * np.abs(sph_harm_y(l, m, np.arccos(t), 0.0))
@@ -109,7 +110,7 @@ def test_complex_superposition_against_fine_grid():
 
 @pytest.mark.parametrize("spec", ["2s", "3pz", "4dxz", "5,3,2", "10,4,-3", "20,5,3", "30,0,0"])
 def test_achieved_fraction_on_finer_quadrature(spec):
-    iso = enclosing_isovalue(Orbital.from_spec(spec), fraction=0.9)
+    iso = enclosing_isovalue(state(spec), fraction=0.9)
     assert iso.enclosed_fraction == pytest.approx(0.9, abs=1e-5)
 
 
@@ -126,7 +127,7 @@ def test_enclosed_probability_of_1s_closed_form():
 def test_unchecked_level_then_checked_later(spec):
     # a mesh solves without the check; check_isovalue adds it later, to the same standard:
     # 1s against the closed form above, the superposition against the scipy fine-grid sum
-    orbital = Orbital.from_spec(spec)
+    orbital = state(spec)
     quick = enclosing_isovalue(orbital, check=False)
     assert math.isnan(quick.enclosed_fraction)
     full = check_isovalue(orbital, quick)
@@ -161,7 +162,7 @@ def test_pi_bond_level_against_a_cartesian_sum():
     # bond(2px,2px,R=2.5,+) from the textbook closed form psi_2px = x exp(-r/2) / (4 sqrt(2 pi))
     # (hydrogen, Z = 1), on a 400^3 midpoint grid over [-30, 30]^3 bohr: normalised on the grid
     # (the box misses under 1e-8 of the mass), then the mass at or above the level
-    iso = enclosing_isovalue(Orbital.from_spec("bond(2px,2px,R=2.5,+)"))
+    iso = enclosing_isovalue(state("bond(2px,2px,R=2.5,+)"))
     n, half = 400, 30.0
     h = 2 * half / n
     axis = -half + (np.arange(n) + 0.5) * h

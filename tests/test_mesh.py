@@ -9,10 +9,18 @@ import pytest
 from scipy.optimize import brentq
 from scipy.special import sph_harm_y
 
+from orbviz import state
 from orbviz.errors import ParameterError
 from orbviz.states.orbital import Orbital
 from orbviz.surface.mesh import build_mesh
-from tests.conftest import fine_axisymmetric, reference_psi, reference_radial, sample_density
+from orbviz.surface.options import MeshOptions
+from tests.conftest import (
+    as_trimesh,
+    fine_axisymmetric,
+    reference_psi,
+    reference_radial,
+    sample_density,
+)
 
 # (spec, terms for the scipy reference): the default grid must meet the accuracy targets
 CASES = {
@@ -30,7 +38,7 @@ CASES = {
 
 @pytest.fixture(scope="module")
 def meshes():
-    return {spec: build_mesh(Orbital.from_spec(spec)) for spec in CASES}
+    return {spec: build_mesh(state(spec)) for spec in CASES}
 
 
 @pytest.mark.parametrize("spec", sorted(CASES))
@@ -47,7 +55,7 @@ def test_vertices_lie_on_the_level_set(meshes, spec):
 @pytest.mark.parametrize("spec", sorted(CASES))
 def test_bodies_closed_outward_no_degenerate_faces(meshes, spec):
     for body in meshes[spec].bodies:
-        mesh = body.to_trimesh()
+        mesh = as_trimesh(body)
         assert mesh.is_watertight and mesh.is_winding_consistent
         assert mesh.volume > 0
         assert mesh.area_faces.min() > 0
@@ -69,7 +77,7 @@ def test_1s_volume_against_r90_sphere(meshes):
     # 1s 90% boundary from the closed form P(rho) = 1 - e^(-2 rho)(1 + 2 rho + 2 rho^2)
     rho = brentq(lambda p: 1 - math.exp(-2 * p) * (1 + 2 * p + 2 * p * p) - 0.9, 0.1, 10)
     (body,) = meshes["1s"].bodies
-    assert body.to_trimesh().volume == pytest.approx(4 / 3 * math.pi * rho**3, rel=0.01)
+    assert as_trimesh(body).volume == pytest.approx(4 / 3 * math.pi * rho**3, rel=0.01)
 
 
 def test_median_vertex_level_encloses_the_fraction_1s(meshes):
@@ -128,7 +136,7 @@ def test_nested_shells_of_3s(meshes):
     for k, (peak, s) in enumerate(zip(maxima, signs, strict=True)):
         if peak >= result.isovalue.level:
             surfaces["positive" if s > 0 else "negative"] += 1 if k == 0 else 2
-    got = {b.name: len(b.to_trimesh().split(only_watertight=False)) for b in result.bodies}
+    got = {b.name: len(as_trimesh(b).split(only_watertight=False)) for b in result.bodies}
     assert got == {k: v for k, v in surfaces.items() if v}
 
 
@@ -141,7 +149,7 @@ def test_separate_lobes_of_4p():
     # one piece per lobe and hemisphere; the two hemispheres of a lobe have opposite signs
     expected = {"positive": len(above), "negative": len(above)}
     assert len(above) >= 2
-    got = {b.name: len(b.to_trimesh().split(only_watertight=False)) for b in result.bodies}
+    got = {b.name: len(as_trimesh(b).split(only_watertight=False)) for b in result.bodies}
     assert got == expected
 
 
@@ -156,10 +164,10 @@ def test_complex_surface_is_coloured_by_phase(meshes):
 
 
 def test_smoothing_and_decimation_stay_closed_and_recolour():
-    result = build_mesh(Orbital.from_spec("3dz2"), smoothing=10, faces=5000)
+    result = build_mesh(Orbital.from_spec("3dz2"), MeshOptions(smooth=10, faces=5000))
     assert sum(len(b.faces) for b in result.bodies) <= 5500
     for body in result.bodies:
-        mesh = body.to_trimesh()
+        mesh = as_trimesh(body)
         assert mesh.is_watertight and mesh.volume > 0
         # colours were evaluated again at the new vertices: sign of scipy psi matches the body
         psi = reference_psi(CASES["3dz2"], *body.vertices.T).real
@@ -171,7 +179,7 @@ def test_memory_refusal(monkeypatch):
 
     monkeypatch.setattr(orbviz.levels.grid, "available_bytes", lambda: 2**30)
     with pytest.raises(ParameterError, match=r"GiB"):
-        build_mesh(Orbital.from_spec("2pz"), grid=1024)
+        build_mesh(Orbital.from_spec("2pz"), MeshOptions(grid=1024))
 
 
 def test_in_box_probability_and_clearance(meshes):
@@ -198,7 +206,7 @@ def test_numpy_checks_agree_with_trimesh(meshes, spec):
 
     for body in meshes[spec].bodies:
         facts = mesh_facts(body.vertices, body.faces)
-        mesh = body.to_trimesh()
+        mesh = as_trimesh(body)
         assert facts.volume == pytest.approx(mesh.volume, rel=1e-12)
         assert facts.area == pytest.approx(mesh.area, rel=1e-12)
         assert facts.closed == mesh.is_watertight and facts.consistent == mesh.is_winding_consistent
@@ -221,12 +229,12 @@ def test_many_radial_nodes_16s():
     # 15 radial nodes: past the monomial Laguerre form, tabulated from the recurrence. Exact
     # |psi|^2 at the vertices from scipy's eval_genlaguerre (tests/conftest.py), 5-95% band
     # within +-5% of the level at --grid 256 (docs/meshes.md: 128 is too coarse for 16s)
-    result = build_mesh(Orbital.from_spec("16s"), grid=256)
+    result = build_mesh(Orbital.from_spec("16s"), MeshOptions(grid=256))
     vertices = np.vstack([b.vertices for b in result.bodies])
     dens = np.abs(reference_psi([(1, 16, 0, 0, "real")], *vertices.T)) ** 2
     low, high = np.percentile(dens / result.isovalue.level, [5, 95])
     assert 0.95 <= low and high <= 1.05
-    assert all(b.to_trimesh().is_watertight for b in result.bodies)
+    assert all(as_trimesh(b).is_watertight for b in result.bodies)
 
 
 def test_coarse_grid_note_and_its_advice_12s():
@@ -239,7 +247,7 @@ def test_coarse_grid_note_and_its_advice_12s():
     coarse = build_mesh(orbital)
     assert coarse.notes and "thinnest shell" in coarse.notes[0]
     advised = int(re.search(r"--grid (\d+)", coarse.notes[0]).group(1))
-    fine = build_mesh(orbital, grid=advised)
+    fine = build_mesh(orbital, MeshOptions(grid=advised))
     assert fine.notes == []
     for result, ok in ((coarse, False), (fine, True)):
         vertices = np.vstack([b.vertices for b in result.bodies])
@@ -261,6 +269,6 @@ def test_memory_check_counts_the_window(monkeypatch):
     allowance = int(1.3e9)
     monkeypatch.setattr(orbviz.levels.grid, "available_bytes", lambda: allowance)
     assert estimate_bytes(512) > 0.8 * allowance
-    result = build_mesh(Orbital.from_spec("3dz2"), grid=512)
+    result = build_mesh(Orbital.from_spec("3dz2"), MeshOptions(grid=512))
     held = result.grid.values.shape
     assert estimate_bytes(512, held) <= 0.8 * allowance and any(result.grid.start)

@@ -9,8 +9,19 @@ import pytest
 from scipy.optimize import brentq
 
 from orbviz.cli import main
-from orbviz.models.model import ModelError, build_model
+from orbviz.errors import OptionError
+from orbviz.models.build import build_model as _build
+from orbviz.models.options import ModelOptions
+from orbviz.models.solids import arrays
 from orbviz.states.orbital import Orbital
+
+
+def build_model(state, *, fraction=0.9, **options):
+    """The model with these options (size -> size_mm and so on, as on the command line)."""
+    names = {"size": "size_mm", "rod": "rod_mm", "min_feature": "min_feature_mm"}
+    return _build(
+        state, ModelOptions(**{names.get(k, k): v for k, v in options.items()}), fraction=fraction
+    )
 
 
 def _size(model) -> float:
@@ -25,11 +36,10 @@ def test_one_watertight_body_at_the_asked_size(spec):
     assert facts.watertight and facts.solids == 1
     assert _size(model) == pytest.approx(50.0, abs=1e-3)
     # the colour parts are closed and together make up the solid (disjoint: volumes add up)
-    from orbviz.models.model import _arrays
     from orbviz.surface.checks import mesh_facts
 
-    volumes = [mesh_facts(*_arrays(p)).volume for p in model.parts.values()]
-    assert all(mesh_facts(*_arrays(p)).closed for p in model.parts.values())
+    volumes = [mesh_facts(*arrays(p)).volume for p in model.parts.values()]
+    assert all(mesh_facts(*arrays(p)).closed for p in model.parts.values())
     assert sum(volumes) == pytest.approx(facts.volume, rel=1e-6)
 
 
@@ -52,9 +62,7 @@ def test_cutaways_stay_watertight_and_open_the_shells(cut):
     facts = model.facts()
     assert facts.watertight and facts.solids == 1 and facts.cavities == 0  # ...a cut opens them
     assert _size(model) == pytest.approx(50.0, abs=1e-3)
-    from orbviz.models.model import _arrays
-
-    v, _ = _arrays(model.solid)
+    v, _ = arrays(model.solid)
     removed = (v[:, 0] > 1e-4) if cut == "half" else (v[:, 0] > 1e-4) & (v[:, 1] > 1e-4)
     assert not removed.any()  # nothing left at x > 0 (half) or at x > 0, y > 0 (quarter)
     if cut == "half":
@@ -65,9 +73,7 @@ def test_stand_gives_a_flat_base():
     model = build_model(Orbital.from_spec("2pz"), size=50.0, grid=96, stand=True)
     assert model.facts().watertight and model.facts().solids == 1
     assert not any("flat base" in c.message for c in model.checks)
-    from orbviz.models.model import _arrays
-
-    v, f = _arrays(model.solid)
+    v, f = arrays(model.solid)
     bottom = v[:, 2].min()
     cross = np.cross(v[f[:, 1]] - v[f[:, 0]], v[f[:, 2]] - v[f[:, 0]])
     down = (cross[:, 2] < 0) & np.all(np.abs(v[f][:, :, 2] - bottom) < 1e-4, axis=1)
@@ -75,16 +81,20 @@ def test_stand_gives_a_flat_base():
 
 
 def test_min_feature_catches_a_thin_rod():
-    with pytest.raises(ModelError, match=r"rod 0.8 mm < 1.2 mm at --size 20: use --size >= 30"):
+    with pytest.raises(
+        OptionError, match=r"0.8 mm rod is under the 1.2 mm thinnest feature: use size_mm >= 30"
+    ):
         build_model(Orbital.from_spec("2pz"), size=20.0)
-    with pytest.raises(ModelError, match=r"rod 1 mm < 1.5 mm"):
+    with pytest.raises(OptionError, match=r"1 mm rod is under the 1.5 mm"):
         build_model(Orbital.from_spec("2pz"), size=60.0, rod=1.0, min_feature=1.5)
+    with pytest.raises(OptionError, match=r"a 100 mm rod would hide a 60 mm model"):
+        build_model(Orbital.from_spec("2pz"), size=60.0, rod=100.0)
 
 
 def test_thin_lobes_are_reported():
-    # a 20 mm 4fxyz has lobes about 4 mm across: against a 6 mm minimum feature most of each
+    # a 24 mm 4fxyz has lobes about 5 mm across: against a 6 mm minimum feature most of each
     # phase is too thin, and the opening check must say so (at 40 mm, 8 mm lobes, only ~1% is)
-    model = build_model(Orbital.from_spec("4fxyz"), size=20.0, rod=6.0, min_feature=6.0, grid=64)
+    model = build_model(Orbital.from_spec("4fxyz"), size=24.0, rod=6.0, min_feature=6.0, grid=64)
     assert any(c.level == "warning" and "thinner than 6 mm" in c.message for c in model.checks)
 
 
@@ -127,10 +137,14 @@ def test_model_cli_refuses_and_writes_nothing(tmp_path, capsys):
     out = tmp_path / "t.stl"
     status = main(["model", "2pz", "--size", "20", "-o", str(out)])
     err = capsys.readouterr().err
-    assert status == 2 and "rod 0.8 mm < 1.2 mm" in err and err.count("\n") == 1
+    assert status == 2 and "--rod: a 0.8 mm rod is under the 1.2 mm" in err and err.count("\n") == 1
+    assert "use --size >= 30 or --rod 1.2" in err
     assert not out.exists()
     status = main(["model", "2pz", "--size", "40", "--split", "-o", str(tmp_path / "x.3mf")])
-    assert status == 2 and "--split" in capsys.readouterr().err
+    assert status == 2 and "split parts are written as .stl" in capsys.readouterr().err
+    status = main(["model", "2pz", "--size", "60", "--rod", "100", "-o", str(out)])
+    assert status == 2 and "a 100 mm rod would hide a 60 mm model" in capsys.readouterr().err
+    assert not out.exists()
 
 
 @pytest.mark.parametrize(

@@ -16,10 +16,11 @@ from scipy.special import gamma, gammainc
 
 from orbviz.cli import main
 from orbviz.levels.isovalue import enclosing_isovalue
-from orbviz.scenes.scene import parse_scene
+from orbviz.scenes.load import parse_scene
 from orbviz.states.orbital import Orbital
 from orbviz.states.potentials import Harmonic
 from orbviz.surface.mesh import build_mesh
+from tests.conftest import as_trimesh
 
 W = 0.5
 
@@ -62,18 +63,18 @@ def test_mesh_vertices_on_the_level_of_a_harmonic_p_state():
     dens = (norm * z * np.exp(-W * r2 / 2)) ** 2 / result.isovalue.level
     low, high = np.percentile(dens, [5, 95])
     assert 0.95 <= low and high <= 1.05
-    assert all(b.to_trimesh().is_watertight for b in result.bodies)
+    assert all(as_trimesh(b).is_watertight for b in result.bodies)
 
 
 def test_scene_items_take_a_potential(tmp_path):
-    from orbviz.scenes.batch import run_scene
+    from orbviz.scenes.runner import run_scene
 
-    items = parse_scene(
+    scene = parse_scene(
         '[defaults]\ngrid = 32\noutputs = ["stl"]\npotential = "yukawa:10"\n'
         '[[orbital]]\nspec = "2pz"\n',
         "p.toml",
     )
-    manifest = run_scene(items, tmp_path, jobs=1, progress=False)
+    manifest = run_scene(scene.items, tmp_path, jobs=1, progress=False)
     assert manifest["items"][0]["status"] == "done"
 
 
@@ -81,8 +82,12 @@ def test_scene_items_take_a_potential(tmp_path):
     ("argv", "fragment"),
     [
         (["info", "1s", "--potential", "yukawa:0.5"], "no bound state"),
-        (["info", "1s", "--potential", "yukawa:x"], "needs a number"),
-        (["info", "1s", "--potential", "morse:1"], "unknown potential"),
+        (["info", "1s", "--potential", "yukawa:x"], "--potential: yukawa takes a number from"),
+        (["info", "1s", "--potential", "morse:1"], "expected coulomb, yukawa:LENGTH"),
+        (
+            ["info", "1s", "--potential", "harmonic:1e9"],
+            "harmonic takes a number from 0.001 to 1000",
+        ),
         (["info", "1s", "--potential", "table:/nonexistent.txt"], "cannot read potential table"),
     ],
 )

@@ -10,18 +10,31 @@ from PIL import Image
 from scipy.constants import physical_constants
 
 from orbviz.cli import main
-from orbviz.figures.render import FigureOptions, figure, render_png
+from orbviz.figures.figure import figure
+from orbviz.figures.options import FigureOptions, PlotOptions
 from orbviz.states.orbital import Orbital
 from orbviz.surface.colors import DEFAULT_PAIR
 
 SMALL = (400, 300)
 
 
+def _figure(spec, **options):
+    options.setdefault("grid", 64)
+    return figure(Orbital.from_spec(spec), FigureOptions(size=SMALL, **options))
+
+
 def _render(spec, tmp_path, **options):
-    fig = figure(Orbital.from_spec(spec), grid=64, options=FigureOptions(size=SMALL, **options))
-    path = render_png(fig, tmp_path / "f.png")
-    with Image.open(path) as image:
-        return fig, np.asarray(image)
+    with _figure(spec, **options) as fig:
+        path = fig.save(tmp_path / "f.png")
+        with Image.open(path) as image:
+            return fig, np.asarray(image)
+
+
+def _r90_1s() -> float:
+    # closed form: P(r < R) = 1 - e^{-2R}(1 + 2R + 2R^2) for hydrogen 1s (REFERENCES)
+    from scipy.optimize import brentq
+
+    return brentq(lambda p: 1 - math.exp(-2 * p) * (1 + 2 * p + 2 * p * p) - 0.9, 0.1, 10)
 
 
 def _foreground(img: np.ndarray, background=(255, 255, 255)) -> np.ndarray:
@@ -76,27 +89,31 @@ def test_transparent_corners_and_no_halo(tmp_path):
 
 
 def test_view_presets_and_bad_view():
-    from orbviz.errors import ParameterError
-    from orbviz.figures.render import parse_view
+    from orbviz._options import build
+    from orbviz.errors import OptionError
 
-    assert parse_view("x") == (0.0, 0.0) and parse_view("30,-10") == (30.0, -10.0)
-    with pytest.raises(ParameterError):
-        parse_view("sideways")
+    assert FigureOptions(view="x").view == "x"  # a raw value is converted when checked
+    assert build(FigureOptions, {"view": "x"}).view == (0.0, 0.0)
+    assert build(FigureOptions, {"view": "30,-10"}).view == (30.0, -10.0)
+    with pytest.raises(OptionError, match="view: expected iso, x, y, z or AZ,EL"):
+        build(FigureOptions, {"view": "sideways"})
 
 
-def test_scale_bar_length_in_angstrom(tmp_path):
-    # the bar's pixel length equals its label in angstrom times pixels per angstrom, using the
-    # CODATA Bohr radius (scipy.constants) and the orthographic view height
-    from orbviz.figures.render import _BOHR_IN_ANGSTROM, _nice
-
+def test_scale_bar_measured_against_the_1s_sphere(tmp_path):
+    # The 1s 90% surface is a sphere of the closed-form radius r90 (REFERENCES; 2.661 bohr); its
+    # width in pixels gives pixels per angstrom (CODATA Bohr radius, scipy.constants). The bar
+    # then has to be 1, 2 or 5 times a power of ten angstrom long at that scale.
     a0 = physical_constants["Bohr radius"][0] * 1e10
-    assert _BOHR_IN_ANGSTROM == pytest.approx(a0, rel=1e-10)
-    fig, img = _render("2pz", tmp_path, axes=False)
-    per_angstrom = SMALL[1] / (2 * fig.half_height) / a0
-    length = _nice(0.22 * SMALL[0] / per_angstrom)
-    dark = np.all(img[..., :3] < 40, axis=2)[SMALL[1] // 2 :]  # the bar is in the lower half
-    longest = max(dark[r].sum() for r in range(dark.shape[0]))
-    assert abs(longest - length * per_angstrom) <= 2
+    _, img = _render("1s", tmp_path, axes=False, grid=96)
+    ink = np.all(img[..., :3] < 40, axis=2)
+    bar_row = int(np.argmax(ink.sum(axis=1)))
+    bar = int(ink[bar_row].sum())
+    sphere = _foreground(img)[SMALL[1] // 2]  # the middle row crosses the sphere only
+    diameter = np.ptp(np.flatnonzero(sphere)) + 1
+    per_angstrom = diameter / (2 * _r90_1s() * a0)
+    nice = [s * 10.0**k for k in range(-3, 4) for s in (1, 2, 5)]
+    label = min(nice, key=lambda v: abs(bar / per_angstrom / v - 1))
+    assert abs(bar - label * per_angstrom) <= 1.5  # pixels: the sphere's edge and the bar's ends
 
 
 @pytest.mark.parametrize(
@@ -115,9 +132,9 @@ def test_scale_bar_length_in_angstrom(tmp_path):
 def test_node_overlays_count(spec, radial, angular):
     # n - l - 1 radial spheres and l angular surfaces (REFERENCES.md); a complex eigenstate's
     # |psi| keeps only its l - |m| polar nodes (4,2,1: one cone pair -> 1 surface, the xy plane)
-    fig = figure(Orbital.from_spec(spec), grid=48, options=FigureOptions(size=SMALL, nodes=True))
-    assert len(fig.overlays.get("radial_nodes", [])) == radial
-    assert len(fig.overlays.get("angular_nodes", [])) == angular
+    with _figure(spec, grid=48, nodes=True) as fig:
+        assert len(fig.overlays.get("radial_nodes", [])) == radial
+        assert len(fig.overlays.get("angular_nodes", [])) == angular
 
 
 def test_cutaway_and_outer_surface(tmp_path):
@@ -128,9 +145,8 @@ def test_cutaway_and_outer_surface(tmp_path):
 
 
 def test_extent_fixes_the_scale(tmp_path):
-    a = figure(Orbital.from_spec("2pz"), grid=48, options=FigureOptions(size=SMALL, extent=30.0))
-    b = figure(Orbital.from_spec("3dz2"), grid=48, options=FigureOptions(size=SMALL, extent=30.0))
-    assert a.half_height == b.half_height and a.mesh.grid.half_width == 30.0
+    with _figure("2pz", grid=48, extent=30.0) as a, _figure("3dz2", grid=48, extent=30.0) as b:
+        assert a.half_height == b.half_height and a.mesh.grid.half_width == 30.0
 
 
 def test_render_cli(tmp_path, capsys):
@@ -162,9 +178,9 @@ def test_render_cli(tmp_path, capsys):
 
 
 def test_slice_marks_nodes_at_closed_form_radii():
-    from orbviz.figures.plot import slice_figure
+    from orbviz.figures.plots import slice_figure
 
-    _, data = slice_figure(Orbital.from_spec("3s"), plane="xz", points=801)
+    _, data = slice_figure(Orbital.from_spec("3s"), PlotOptions(plane="xz"), points=801)
     # closed form (REFERENCES.md): 3s nodes at (9 -+ 3 sqrt3)/2 bohr
     expected = [(9 - 3 * math.sqrt(3)) / 2, (9 + 3 * math.sqrt(3)) / 2]
     assert data.node_radii == pytest.approx(expected, rel=1e-10)
@@ -176,19 +192,25 @@ def test_slice_marks_nodes_at_closed_form_radii():
     assert flips == pytest.approx(expected, abs=step)
 
 
-def test_slice_isovalue_is_the_enclosing_level():
-    from orbviz.figures.plot import slice_figure
-    from orbviz.levels.isovalue import enclosing_isovalue
+def test_slice_level_ring_is_the_closed_form_1s_radius():
+    # the drawn level of 1s is |psi|^2 = e^{-2r}/pi at r = r90 (closed forms, REFERENCES), so the
+    # ring where the sampled density crosses it lies at r90
+    from orbviz.figures.plots import slice_figure
 
-    orbital = Orbital.from_spec("2pz")
-    _, data = slice_figure(orbital)
-    assert data.level == enclosing_isovalue(orbital).level
+    _, data = slice_figure(Orbital.from_spec("1s"), points=1601)
+    r90 = _r90_1s()
+    assert data.level == pytest.approx(math.exp(-2 * r90) / math.pi, rel=1e-4)
+    mid = len(data.axis) // 2
+    row = data.density[mid:, mid] - data.level
+    crossing = data.axis[mid:][np.flatnonzero(np.sign(row[1:]) != np.sign(row[:-1]))]
+    assert crossing == pytest.approx([r90], abs=data.axis[1] - data.axis[0])
 
 
-@pytest.mark.parametrize(("spec", "n", "l"), [("2s", 2, 0), ("3pz", 3, 1), ("3dz2", 3, 2)])
-def test_radial_plot_marks(spec, n, l):
-    from orbviz.figures.plot import radial_figure
-    from orbviz.states.radial import radial_node_radii
+@pytest.mark.parametrize(
+    ("spec", "n", "l", "nodes"), [("2s", 2, 0, [2.0]), ("3pz", 3, 1, [6.0]), ("3dz2", 3, 2, [])]
+)
+def test_radial_plot_marks(spec, n, l, nodes):
+    from orbviz.figures.plots import radial_figure
 
     _, data = radial_figure(Orbital.from_spec(spec))
     # <r> = [3n^2 - l(l+1)]/2 (Bethe & Salpeter); the marked maximum is the curve's maximum
@@ -196,11 +218,10 @@ def test_radial_plot_marks(spec, n, l):
     assert data.most_probable_radius == pytest.approx(
         data.r[np.argmax(data.p)], abs=data.r[1] - data.r[0]
     )
-    assert data.node_radii == pytest.approx(radial_node_radii(n, l).tolist())
-    if l == n - 1:  # nodeless: most probable radius n^2 (REFERENCES.md)
+    # node radii from the closed forms (REFERENCES): 2s at 2 bohr, 3p at 6 bohr
+    assert data.node_radii == pytest.approx(nodes, rel=1e-10)
+    if l == n - 1:  # nodeless: most probable radius n^2 (REFERENCES)
         assert data.most_probable_radius == pytest.approx(n * n, rel=1e-7)
-    if spec == "2s":  # closed form: node at 2 bohr
-        assert data.node_radii == pytest.approx([2.0])
 
 
 @pytest.mark.parametrize("suffix", [".png", ".svg", ".pdf"])

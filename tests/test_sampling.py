@@ -10,11 +10,13 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from scipy.optimize import brentq
 
+from orbviz import state
 from orbviz.levels.fields import field_of
 from orbviz.levels.grid import box_half_width, sample
 from orbviz.levels.isovalue import Isovalue, enclosing_isovalue
 from orbviz.states.orbital import Orbital
 from orbviz.surface.mesh import build_mesh
+from orbviz.surface.options import MeshOptions
 from tests.conftest import reference_psi, reference_radial
 
 N = 64
@@ -60,7 +62,7 @@ def full_axes(grid):
 def sampled():
     out = {}
     for spec in SPECS:
-        orbital = Orbital.from_spec(spec)
+        orbital = state(spec)
         iso = enclosing_isovalue(orbital)
         field = field_of(orbital)
         grid = sample(field, box_half_width(orbital, iso, N), N, surface=iso)
@@ -142,7 +144,7 @@ def test_claimed_mirror_parity_holds_for_the_reference(sampled, spec):
     ],
 )
 def test_parity_of_textbook_shapes(spec, expected):
-    assert field_of(Orbital.from_spec(spec)).parity == expected
+    assert field_of(state(spec)).parity == expected
 
 
 def test_a_window_that_would_cut_the_surface_falls_back_to_the_whole_box():
@@ -183,11 +185,11 @@ def test_window_contours_to_the_whole_box_surface(spec, monkeypatch):
 
         orbital = Orbital.from_spec(spec.split(":", 1)[1], potential=Harmonic(0.5))
     else:
-        orbital = Orbital.from_spec(spec)
-    windowed = build_mesh(orbital, grid=80)
+        orbital = state(spec)
+    windowed = build_mesh(orbital, MeshOptions(grid=80))
     assert any(windowed.grid.start)
     monkeypatch.setattr(orbviz.levels.grid, "window_start", lambda *args: 0)
-    whole = build_mesh(orbital, grid=80)
+    whole = build_mesh(orbital, MeshOptions(grid=80))
     assert whole.grid.start == (0, 0, 0)
     for a, b in zip(windowed.bodies, whole.bodies, strict=True):
         assert a.name == b.name and a.faces.shape == b.faces.shape
@@ -221,7 +223,7 @@ def test_random_one_shell_mixtures_sample_as_scipy_says(coefs, shell):
 
     label = {lm: name for name, lm in LABELS.items()}
     spec = " + ".join(f"({c!r})*{n}{label[(l, m)]}" for c, _, _, m, _ in terms)
-    orbital = Orbital.from_spec(spec)
+    orbital = state(spec)
     iso = enclosing_isovalue(orbital, check=False)
     grid = sample(field_of(orbital), box_half_width(orbital, iso, 40), 40, surface=iso)
     ref = reference_field(orbital, "signed", *full_axes(grid))
@@ -244,9 +246,9 @@ def test_bond_parity_against_the_scipy_combination(spec, sign, n, l, m, expected
     # psi ~ phi(z + R/2) + sign phi(z - R/2) from scipy's functions (tests/conftest.py): the
     # field's claimed parity holds for it under each mirror, and is the textbook one (a same-
     # orbital pair has z parity p * sign)
-    field = field_of(Orbital.from_spec(spec))
+    field = field_of(state(spec))
     assert field.parity == expected
-    half = Orbital.from_spec(spec).R / 2
+    half = state(spec).R / 2
     rng = np.random.default_rng(5)
     x, y, z = rng.uniform(-6, 6, (3, 200))
 

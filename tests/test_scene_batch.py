@@ -13,8 +13,16 @@ from pathlib import Path
 import pytest
 
 from orbviz.cli import main
-from orbviz.scenes.batch import run_scene
-from orbviz.scenes.scene import Item, SceneError, load_scene, parse_scene
+from orbviz.errors import SceneError
+from orbviz.scenes.items import Item
+from orbviz.scenes.load import load_scene
+from orbviz.scenes.load import parse_scene as _parse
+from orbviz.scenes.runner import run_scene
+
+
+def parse_scene(text, source):
+    return _parse(text, source).items
+
 
 GALLERY = Path(__file__).resolve().parents[1] / "gallery_scenes"
 
@@ -23,12 +31,9 @@ def _small(items: list[Item]) -> list[Item]:
     """The same items at a small grid and image size, so the tests run quickly."""
     out = []
     for item in items:
-        s = json.loads(json.dumps(item.settings))
-        s["grid"] = 32
-        s["render"] = {**s["render"], "size": "160x120", "scale": 1.0}
-        if "model" in s and "size" in s["model"]:
-            s["model"]["size"] = 60.0
-        out.append(dataclasses.replace(item, settings=s))
+        figure = dataclasses.replace(item.figure, grid=32, size=(160, 120), scale=1.0)
+        model = dataclasses.replace(item.model, grid=32, size_mm=60.0)
+        out.append(dataclasses.replace(item, figure=figure, model=model))
     return out
 
 
@@ -55,9 +60,9 @@ outputs = ["png", "ply"]
 def test_parse_defaults_overrides_and_expansion():
     items = parse_scene(SCENE, "test.toml")
     assert [i.name for i in items] == ["2pz", "1s", "dxy-figure"]  # file order kept
-    assert items[0].settings["outputs"] == ["png", "stl"]
-    assert items[2].settings["outputs"] == ["png", "ply"]
-    assert all(i.settings["grid"] == 32 for i in items)
+    assert items[0].outputs == ("png", "stl")
+    assert items[2].outputs == ("png", "ply")
+    assert all(i.figure.grid == 32 and i.model.grid == 32 for i in items)
 
 
 def test_shells_expand_to_every_real_orbital():
@@ -66,7 +71,7 @@ def test_shells_expand_to_every_real_orbital():
     assert len(items) == 55
     assert len({i.name for i in items}) == 55
     assert "5,4,-4" in {i.spec for i in items}  # no label beyond f: n,l,m as a real combination
-    assert all(i.settings["real"] is False for i in items)
+    assert all(i.physics.real is False for i in items)
 
 
 @pytest.mark.parametrize(
@@ -74,19 +79,22 @@ def test_shells_expand_to_every_real_orbital():
     [
         (
             "[[orbital]]\nspec = '2pz'\nfracton = 0.5\n",
-            "t.toml: orbital 1 ('2pz'): unknown key 'fracton'",
+            "t.toml: orbital 1 ('2pz'): fracton: unknown key",
         ),
-        ("[[orbital]]\nspec = '2pq'\n", "t.toml: orbital 1 ('2pq'): key 'spec'"),
-        ("[[orbital]]\nspec = '2pz'\nfraction = 1.5\n", "key 'fraction'"),
-        ("[[orbital]]\nspec = '2pz'\ngrid = 'fine'\n", "key 'grid' must be int"),
-        ("[[orbital]]\nspec = '2pz'\noutputs = ['gif']\n", "key 'outputs'"),
-        ("[[orbital]]\nspec = '2pz'\nrender = { colour = 'red' }\n", "unknown key 'render.colour'"),
-        ("[[orbital]]\nspec = '2pz'\nname = '../escape'\n", "key 'name' '../escape'"),
-        ("[[orbital]]\nspec = '2pz'\nname = '/etc/x'\n", "key 'name'"),
-        ("[[orbital]]\nspec = '2pz'\n[[orbital]]\nspec = '2pz'\n", "duplicate item name '2pz'"),
-        ("[[shells]]\nn = 0\n", "t.toml: shells 1: key 'n'"),
-        ("[defaults]\nZ = -1\n[[orbital]]\nspec = '1s'\n", "t.toml: [defaults]: key 'Z'"),
-        ("[[orbital]]\nname = 'x'\n", "missing key 'spec'"),
+        ("[[orbital]]\nspec = '2pq'\n", "t.toml: orbital 1 ('2pq'): spec: expected an orbital"),
+        ("[[orbital]]\nspec = '2pz'\nfraction = 1.5\n", "fraction: expected a number"),
+        ("[[orbital]]\nspec = '2pz'\ngrid = 'fine'\n", "grid: expected a whole number"),
+        ("[[orbital]]\nspec = '2pz'\noutputs = ['gif']\n", "outputs: expected a non-empty list"),
+        ("[[orbital]]\nspec = '2pz'\nrender = { colour = 'red' }\n", "render.colour: unknown key"),
+        ("[[orbital]]\nspec = '2pz'\nname = '../escape'\n", "name: '../escape' must be"),
+        ("[[orbital]]\nspec = '2pz'\nname = '/etc/x'\n", "name: '/etc/x' must be"),
+        ("[[orbital]]\nspec = '2pz'\n[[orbital]]\nspec = '2pz'\n", "both write '2pz.png'"),
+        ("[[shells]]\nn = 0\n", "t.toml: shells 1: n: expected whole numbers"),
+        (
+            "[defaults]\nZ = -1\n[[orbital]]\nspec = '1s'\n",
+            "t.toml: [defaults]: Z: expected a number",
+        ),
+        ("[[orbital]]\nname = 'x'\n", "spec: missing"),
         ("[scene]\nx = 1\n", "unknown table 'scene'"),
         ("[[orbital]\nspec = '1s'\n", "not valid TOML"),
         ("title = 'empty'\n", "no items"),
@@ -121,7 +129,8 @@ def test_run_manifest_rerun_and_force(tmp_path):
     # an unchanged rerun skips everything; a changed item reruns alone; --force redoes all
     again = run_scene(items, tmp_path, jobs=2, progress=False)
     assert [e["status"] for e in again["items"]] == ["skipped"] * 3
-    changed = [dataclasses.replace(items[0], settings={**items[0].settings, "fraction": 0.8})]
+    physics = dataclasses.replace(items[0].physics, fraction=0.8)
+    changed = [dataclasses.replace(items[0], physics=physics)]
     third = run_scene(changed + items[1:], tmp_path, jobs=2, progress=False)
     assert [e["status"] for e in third["items"]] == ["done", "skipped", "skipped"]
     (tmp_path / "1s.png").unlink()  # a missing file makes its item run again
@@ -133,12 +142,12 @@ def test_run_manifest_rerun_and_force(tmp_path):
 
 def test_one_failure_does_not_stop_the_others(tmp_path, capsys):
     scene = tmp_path / "s.toml"
-    # the second item asks for a model too small for its rod, found when it is built (at run
-    # time): it fails alone
+    # the second item fixes a figure extent too small to hold its surface, found only when the
+    # surface is solved (at run time): it fails alone
     scene.write_text(
         "[defaults]\ngrid = 32\noutputs = ['stl']\n"
         "[[orbital]]\nspec = '2pz'\n"
-        "[[orbital]]\nspec = '3dz2'\noutputs = ['model.stl']\nmodel = { size = 20 }\n"
+        "[[orbital]]\nspec = '3dz2'\nrender = { extent = 2.0 }\n"
         "[[orbital]]\nspec = '1s'\n"
     )
     status = main(["batch", str(scene), "-o", str(tmp_path / "out"), "--no-progress"])
@@ -147,7 +156,7 @@ def test_one_failure_does_not_stop_the_others(tmp_path, capsys):
     states = {e["name"]: e["status"] for e in manifest["items"]}
     assert states == {"2pz": "done", "3dz2": "failed", "1s": "done"}
     failed = next(e for e in manifest["items"] if e["status"] == "failed")
-    assert "rod 0.8 mm < 1.2 mm" in failed["error"]
+    assert "does not hold the surface" in failed["error"]
     assert "failed: 3dz2" in capsys.readouterr().err
 
 
@@ -242,7 +251,7 @@ def test_contact_sheet_in_a_real_browser(tmp_path):
 
 @pytest.mark.parametrize("scene", sorted(GALLERY.glob("*.toml")), ids=lambda p: p.stem)
 def test_gallery_scenes_parse_and_run(scene, tmp_path):
-    items = load_scene(scene)
+    items = load_scene(scene).items
     assert items
     manifest = run_scene(_small(items), tmp_path, jobs=2, progress=False)
     assert all(e["status"] == "done" for e in manifest["items"]), [
@@ -264,9 +273,10 @@ def test_demo_runs(tmp_path, capsys):
 def test_figure_and_model_of_one_item_share_one_mesh(tmp_path, monkeypatch):
     # an item with a figure and a model contours its orbital once (not a check of physics: of
     # the work done); the model is still the one build_model makes on its own (same volume)
-    import orbviz.models.model
+    import orbviz.models.build
     import orbviz.surface.mesh
-    from orbviz.scenes.batch import run_item
+    from orbviz.models.options import ModelOptions
+    from orbviz.scenes.runner import run_item
     from orbviz.states.orbital import Orbital
 
     text = """
@@ -288,11 +298,13 @@ spec = "2pz"
         return real(*args, **kwargs)
 
     monkeypatch.setattr(orbviz.surface.mesh, "build_mesh", counting)
-    monkeypatch.setattr(orbviz.models.model, "build_mesh", counting)
+    monkeypatch.setattr(orbviz.models.build, "build_mesh", counting)
     entry = run_item(item, str(tmp_path))
     assert entry["status"] == "done", entry
     assert len(calls) == 1
-    alone = orbviz.models.model.build_model(Orbital.from_spec("2pz"), size=60, grid=32)
+    alone = orbviz.models.build.build_model(
+        Orbital.from_spec("2pz"), ModelOptions(size_mm=60.0, grid=32)
+    )
     import trimesh
 
     written = trimesh.load(tmp_path / "2pz-model.stl")

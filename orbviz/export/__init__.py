@@ -1,20 +1,36 @@
 """Mesh writers, one module per format, chosen by the output file's suffix.
 
-Every writer takes the finished bodies and a coordinate scale and writes atomically: temporary
-files in the target folder, renamed into place only when all of them are complete. A failed run
-leaves nothing behind and never replaces an existing file.
+Every writer takes finished bodies and a coordinate scale. Each names its companion files
+(``.mtl``, ``.bin``) so that :func:`check_output` can check every file before any work starts,
+and each writes through :func:`orbviz.export.atomic.atomic_paths`: all files or none, and a
+failed run never changes an existing file.
 """
 
 from __future__ import annotations
 
+import importlib
 import os
+from collections.abc import Sequence
 from pathlib import Path
+from types import ModuleType
 
 from orbviz.errors import OutputError
-from orbviz.export._atomic import atomic_paths
 from orbviz.export._units import UNITS, unit_scale
+from orbviz.export.atomic import atomic_folder, atomic_paths, check_targets
+from orbviz.surface.contour import Body
 
-__all__ = ["SUFFIXES", "UNITS", "atomic_paths", "check_output", "unit_scale", "write_bodies"]
+__all__ = [
+    "SUFFIXES",
+    "UNITS",
+    "atomic_folder",
+    "atomic_paths",
+    "check_output",
+    "check_targets",
+    "encode_bodies",
+    "unit_scale",
+    "write_bodies",
+    "write_files",
+]
 
 # suffix -> module name in this package (imported only when used)
 SUFFIXES = {
@@ -27,48 +43,79 @@ SUFFIXES = {
 }
 
 
-def check_output(path: str | os.PathLike, suffixes=SUFFIXES) -> Path:
-    """Refuse, before any work, an output with an unknown suffix or an unwritable folder."""
+def _writer(path: Path) -> ModuleType:
+    return importlib.import_module(f"orbviz.export.{SUFFIXES[path.suffix.lower()]}")
+
+
+def check_output(path: str | os.PathLike[str], suffixes: Sequence[str] | None = None) -> list[Path]:
+    """Refuse, before any work, an output with an unknown suffix or any file it cannot write.
+
+    Parameters
+    ----------
+    path : str or path-like
+        The main output file.
+    suffixes : sequence of str, optional
+        Suffixes allowed (default: every mesh format). Suffixes outside :data:`SUFFIXES` name
+        single-file outputs of other kinds (``.png``, ``.json``).
+
+    Returns
+    -------
+    list of Path
+        The main file and its companions, all checked.
+    """
     path = Path(path)
+    allowed = list(suffixes if suffixes is not None else SUFFIXES)
     suffix = path.suffix.lower()
-    if suffix not in suffixes:
-        known = ", ".join(sorted(suffixes))
+    if suffix not in allowed:
+        known = ", ".join(sorted(allowed))
         raise OutputError(
             f"cannot write {str(path)!r}: unknown suffix {suffix or '(none)'!r}; use {known}"
         )
-    folder = path.parent if str(path.parent) else Path(".")
-    if not folder.is_dir():
-        raise OutputError(f"cannot write {str(path)!r}: folder {str(folder)!r} does not exist")
-    if not os.access(folder, os.W_OK | os.X_OK):
-        raise OutputError(f"cannot write {str(path)!r}: folder {str(folder)!r} is not writable")
-    if path.is_dir():
-        raise OutputError(f"cannot write {str(path)!r}: it is a folder")
-    return path
+    targets = [path]
+    if suffix in SUFFIXES:
+        targets += _writer(path).companions(path)
+    check_targets(targets)
+    return targets
 
 
 def write_bodies(
-    bodies, path: str | os.PathLike, *, units: str = "bohr", colors=None
+    bodies: Sequence[Body], path: str | os.PathLike[str], *, units: str | None = None
 ) -> list[Path]:
     """Write finished bodies to ``path`` in the format its suffix names.
 
     Parameters
     ----------
-    bodies : list of orbviz.surface.contour.Body
-        Closed bodies, coordinates in bohr.
-    path : path-like
+    bodies : sequence of Body
+        Closed bodies, coordinates in their own unit (bohr for orbitals, mm for models).
+    path : str or path-like
         Output file; companions (``.mtl``, ``.bin``) go beside it, named after it.
-    units : {"bohr", "angstrom", "nm", "pm"}, default: "bohr"
-        Length unit of the written coordinates.
-    colors : pair of RGBA tuples, optional
-        Positive and negative colours (the bodies' vertex colours already use them).
+    units : {"bohr", "angstrom", "nm", "pm", "mm"}, optional
+        Length unit of the written coordinates (default: the bodies' own).
 
     Returns
     -------
     list of Path
         Every file written.
     """
-    import importlib
+    path = check_output(path)[0]
+    source = bodies[0].unit if bodies else "bohr"
+    units = units or source
+    scale = unit_scale(units, source)
+    return write_files(encode_bodies(bodies, path, scale=scale, units=units))
 
-    path = check_output(path)
-    module = importlib.import_module(f"orbviz.export.{SUFFIXES[path.suffix.lower()]}")
-    return module.write(bodies, path, scale=unit_scale(units), units=units)
+
+def encode_bodies(
+    bodies: Sequence[Body], path: Path, *, scale: float, units: str
+) -> dict[Path, bytes]:
+    """Return the bytes of every file the format of ``path`` writes, by path."""
+    files: dict[Path, bytes] = _writer(path).encode(bodies, path, scale=scale, units=units)
+    return files
+
+
+def write_files(files: dict[Path, bytes]) -> list[Path]:
+    """Write several files as one: all of them or, on any failure, none (old files kept)."""
+    targets = list(files)
+    with atomic_paths(*targets) as temps:
+        for temp, target in zip(temps, targets, strict=True):
+            temp.write_bytes(files[target])
+    return targets

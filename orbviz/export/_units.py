@@ -1,21 +1,40 @@
-"""Length units of exported coordinates (internal coordinates are bohr)."""
+"""Length units of exported coordinates.
+
+An orbital's surface is in bohr and is written in bohr, angstrom, nm or pm; a printable model is
+in millimetres and is written in millimetres. Mixing the two (an orbital "in mm") has no
+meaning and is refused.
+"""
 
 from __future__ import annotations
 
+from orbviz._defaults import LENGTH_UNITS
 from orbviz.errors import ParameterError
 
 __all__ = ["UNITS", "unit_scale"]
 
 _METRES = {"angstrom": 1e-10, "nm": 1e-9, "pm": 1e-12}
-UNITS = ("bohr", "angstrom", "nm", "pm")
+UNITS = LENGTH_UNITS
 
 
-def unit_scale(units: str) -> float:
-    """Multiplier from bohr to ``units`` (CODATA Bohr radius via scipy.constants)."""
+def unit_scale(units: str, source: str = "bohr") -> float:
+    """Multiplier from ``source`` lengths (bohr or mm) to ``units`` (CODATA Bohr radius).
+
+    Raises
+    ------
+    ParameterError
+        For an unknown unit, or a conversion between atomic lengths and millimetres.
+    """
+    if units not in UNITS:
+        raise ParameterError(f"units: expected {', '.join(UNITS)}, got {units!r}")
+    if source == "mm" or units == "mm":
+        if source != units:
+            raise ParameterError(
+                f"units: {units!r} does not apply to coordinates in {source}; millimetres are "
+                "for printable models (orbviz model), atomic lengths for orbital meshes"
+            )
+        return 1.0
     if units == "bohr":
         return 1.0
-    if units not in _METRES:
-        raise ParameterError(f"unknown length unit {units!r}; use one of {', '.join(UNITS)}")
     from scipy.constants import physical_constants
 
-    return physical_constants["Bohr radius"][0] / _METRES[units]
+    return float(physical_constants["Bohr radius"][0] / _METRES[units])

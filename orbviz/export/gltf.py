@@ -1,37 +1,34 @@
 """glTF 2.0, binary (``.glb``) or JSON with a ``STEM.bin`` buffer (``.gltf``).
 
-One mesh per body, each with its own material: a real state's phases get a PBR base colour each,
-a complex state's surface carries COLOR_0 vertex colours. The vertex data stay in the physics
-frame (z is the quantisation axis). One root node, ``orbviz-z-up``, rotates by -90 degrees about
-x, so that viewers, which are +Y up, show z up. glTF units are metres: the numbers are the chosen
-length unit (bohr by default), and an ``extras`` entry on the root says which.
+One mesh per body, each with its own explicit, non-metallic material: a real state's phases get a
+PBR base colour each, a complex state's surface carries COLOR_0 vertex colours under a white
+material. The vertex data stay in the physics frame (z is the quantisation axis). One root node,
+``orbviz-z-up``, rotates by -90 degrees about x, so that viewers, which are +Y up, show z up.
+glTF units are metres: the numbers are the chosen length unit (bohr by default), and an
+``extras`` entry on the root says which.
 """
 
 from __future__ import annotations
 
 import json
 import math
+from collections.abc import Callable, Sequence
 from pathlib import Path
+from typing import Any
 
-from orbviz.export._atomic import atomic_paths
-from orbviz.export._scene import body_mesh
+from orbviz.errors import OutputError
+from orbviz.surface.contour import Body
+from orbviz.surface.convert import trimesh_scene
+
+__all__ = ["companions", "encode", "encode_scene", "z_up_root"]
 
 _Z_UP = [-math.sqrt(0.5), 0.0, 0.0, math.sqrt(0.5)]  # quaternion (x, y, z, w): -90 deg about x
 
 
-def _scene(bodies, scale: float):
-    import trimesh
+def z_up_root(units: str) -> Callable[[dict[str, Any]], None]:
+    """Return a tree edit hanging the scene under one root node that turns z up (unit noted)."""
 
-    scene = trimesh.Scene()
-    for body in bodies:
-        scene.add_geometry(
-            body_mesh(body, scale, material=True), geom_name=body.name, node_name=body.name
-        )
-    return scene
-
-
-def _postprocess(units: str):
-    def edit(tree: dict) -> None:
+    def edit(tree: dict[str, Any]) -> None:
         roots = tree["scenes"][tree.get("scene", 0)]["nodes"]
         tree["nodes"].append(
             {
@@ -47,27 +44,42 @@ def _postprocess(units: str):
     return edit
 
 
-def write(bodies, path: Path, *, scale: float, units: str) -> list[Path]:
-    """Write GLB, or glTF plus its buffer file."""
+def companions(path: Path) -> list[Path]:
+    """Return the buffer file ``STEM.bin`` of a ``.gltf``."""
+    return [path.with_suffix(".bin")] if path.suffix.lower() == ".gltf" else []
+
+
+def encode_scene(
+    scene: Any,
+    path: Path,
+    *,
+    tree_edit: Callable[[dict[str, Any]], None],
+    buffer_edit: Callable[[dict[str, Any], dict[str, Any]], None] | None = None,
+) -> dict[Path, bytes]:
+    """Return a trimesh scene as GLB, or as glTF JSON plus its ``STEM.bin`` buffer."""
     from trimesh.exchange.gltf import export_glb, export_gltf
 
-    scene = _scene(bodies, scale)
     if path.suffix.lower() == ".glb":
-        data = export_glb(scene, include_normals=True, tree_postprocessor=_postprocess(units))
-        with atomic_paths(path) as (temp,):
-            temp.write_bytes(data)
-        return [path]
+        data = export_glb(
+            scene,
+            include_normals=True,
+            tree_postprocessor=tree_edit,
+            buffer_postprocessor=buffer_edit,
+        )
+        return {path: data}
+    if buffer_edit is not None:
+        raise OutputError(f"cannot write {str(path)!r}: an animated glTF is written as .glb")
     bin_path = path.with_suffix(".bin")
     files = export_gltf(
-        scene, include_normals=True, merge_buffers=True, tree_postprocessor=_postprocess(units)
+        scene, include_normals=True, merge_buffers=True, tree_postprocessor=tree_edit
     )
     json_name = next(name for name in files if name.endswith(".gltf"))
-    buffers = [name for name in files if name != json_name]
-    if len(buffers) != 1:
-        raise RuntimeError(f"expected one glTF buffer, trimesh gave {buffers}")
+    (buffer,) = [name for name in files if name != json_name]  # merge_buffers: exactly one
     tree = json.loads(files[json_name])
     tree["buffers"][0]["uri"] = bin_path.name  # named after the .gltf, so exports never collide
-    with atomic_paths(path, bin_path) as (temp_json, temp_bin):
-        temp_json.write_text(json.dumps(tree, indent=1))
-        temp_bin.write_bytes(files[buffers[0]])
-    return [path, bin_path]
+    return {path: json.dumps(tree, indent=1).encode(), bin_path: files[buffer]}
+
+
+def encode(bodies: Sequence[Body], path: Path, *, scale: float, units: str) -> dict[Path, bytes]:
+    """GLB, or glTF plus its buffer file."""
+    return encode_scene(trimesh_scene(bodies, scale), path, tree_edit=z_up_root(units))

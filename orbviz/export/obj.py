@@ -7,35 +7,33 @@ which no material can express, so it needs no material file.
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from pathlib import Path
 
-from orbviz.export._atomic import atomic_paths
-from orbviz.export._scene import body_mesh
+from orbviz.surface.contour import Body
+from orbviz.surface.convert import trimesh_scene
 
 
-def write(bodies, path: Path, *, scale: float, units: str) -> list[Path]:
-    """Write OBJ (and its MTL for a real state)."""
-    import trimesh
+def companions(path: Path) -> list[Path]:
+    """Return the material file ``STEM.mtl`` (written for real states)."""
+    return [path.with_suffix(".mtl")]
+
+
+def encode(bodies: Sequence[Body], path: Path, *, scale: float, units: str) -> dict[Path, bytes]:
+    """Return the OBJ text, and its MTL for a real state."""
     from trimesh.exchange.obj import export_obj
 
-    scene = trimesh.Scene()
-    for body in bodies:
-        scene.add_geometry(
-            body_mesh(body, scale, material=True), geom_name=body.name, node_name=body.name
-        )
-    mtl_name = path.with_suffix(".mtl").name
+    mtl = path.with_suffix(".mtl")
     text, extra = export_obj(
-        scene,
+        trimesh_scene(bodies, scale, white_under_colours=False),
         include_normals=True,
         include_color=True,
         include_texture=True,
         return_texture=True,
-        mtl_name=mtl_name,
+        mtl_name=mtl.name,
         header=f"orbviz mesh, coordinates in {units}",
     )
-    targets = [path] + ([path.with_suffix(".mtl")] if mtl_name in extra else [])
-    with atomic_paths(*targets) as temps:
-        temps[0].write_text(text)
-        if len(temps) > 1:
-            temps[1].write_bytes(extra[mtl_name])
-    return targets
+    files = {path: text.encode()}
+    if mtl.name in extra:
+        files[mtl] = extra[mtl.name]
+    return files

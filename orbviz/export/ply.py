@@ -6,19 +6,26 @@
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from pathlib import Path
 
-from orbviz.export._atomic import atomic_paths
-from orbviz.export._scene import combined_mesh
+from orbviz.surface.contour import Body
+from orbviz.surface.convert import combined_trimesh
 
 
-def write(bodies, path: Path, *, scale: float, units: str) -> list[Path]:
-    """Write a binary PLY."""
+def companions(path: Path) -> list[Path]:
+    """No companion files."""
+    return []
+
+
+def encode(bodies: Sequence[Body], path: Path, *, scale: float, units: str) -> dict[Path, bytes]:
+    """Return a binary PLY of all bodies."""
     from trimesh.exchange.ply import export_ply
 
     data = export_ply(
-        combined_mesh(bodies, scale), encoding="binary", vertex_normal=True, include_attributes=True
+        combined_trimesh(bodies, scale),
+        encoding="binary",
+        vertex_normal=True,
+        include_attributes=True,
     )
-    with atomic_paths(path) as (temp,):
-        temp.write_bytes(data)
-    return [path]
+    return {path: data}

@@ -8,15 +8,21 @@ Printable models at a physical size come from ``orbviz model``.
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from pathlib import Path
 
 import numpy as np
 
-from orbviz.export._atomic import atomic_paths
+from orbviz.surface.contour import Body
 
 
-def write(bodies, path: Path, *, scale: float, units: str) -> list[Path]:
-    """Write a 3MF file."""
+def companions(path: Path) -> list[Path]:
+    """No companion files."""
+    return []
+
+
+def encode(bodies: Sequence[Body], path: Path, *, scale: float, units: str) -> dict[Path, bytes]:
+    """Return a 3MF package of all bodies, each a mesh object with its base material."""
     import lib3mf
 
     wrapper = lib3mf.get_wrapper()
@@ -25,9 +31,8 @@ def write(bodies, path: Path, *, scale: float, units: str) -> list[Path]:
     model.GetMetaDataGroup().AddMetaData("orbviz", "length_unit", units, "string", True)
     materials = model.AddBaseMaterialGroup()
     for body in bodies:
-        r, g, b, a = (
-            (int(v) for v in body.colors[0]) if body.name != "surface" else (200, 200, 200, 255)
-        )
+        uniform = len(body.colors) and bool(np.all(body.colors == body.colors[0]))
+        r, g, b, a = (int(v) for v in body.colors[0]) if uniform else (200, 200, 200, 255)
         index = materials.AddMaterial(body.name, wrapper.RGBAToColor(r, g, b, a))
         mesh = model.AddMeshObject()
         mesh.SetName(body.name)
@@ -37,7 +42,4 @@ def write(bodies, path: Path, *, scale: float, units: str) -> list[Path]:
         mesh.SetGeometry(positions, triangles)
         mesh.SetObjectLevelProperty(materials.GetResourceID(), index)
         model.AddBuildItem(mesh, wrapper.GetIdentityTransform())
-    writer = model.QueryWriter("3mf")
-    with atomic_paths(path) as (temp,):
-        writer.WriteToFile(str(temp))
-    return [path]
+    return {path: bytes(model.QueryWriter("3mf").WriteToBuffer())}

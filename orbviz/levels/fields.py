@@ -1,198 +1,162 @@
-"""The real scalar field that is contoured, as one fused numexpr expression.
+"""The real scalar field that is contoured, evaluated fast and in bounded memory.
 
 Which field depends on the state (see ../docs/meshes.md):
 
-* ``signed``: a real orbital or real superposition, psi itself, contoured at +-sqrt(level);
+* ``signed``: a real state, psi itself, contoured at +-sqrt(level);
 * ``envelope``: a complex eigenstate psi = g e^{i m azimuth}: the real envelope g, contoured at
   +-sqrt(level), so that the nodal cones separate lobes as they should;
 * ``modulus``: any other complex state: |psi|, contoured at +sqrt(level).
 
-The expression is built from exact polynomial coefficients: solid harmonics r^l S_lm expanded in
-monomials of x, y, z (the same normalised recurrence as :mod:`orbviz.states.angular`), Laguerre
-polynomials by Horner's rule, so no trigonometry and no division appear. numexpr evaluates it in
-float64 blocks that stay in cache and stores float32 when asked.
+The field is built from the state's centres (:class:`orbviz.states.state.Centre`), so every kind
+of state is handled alike. Where the polynomial forms are small enough
+(:mod:`orbviz.levels.polynomials`), one fused numexpr expression evaluates it in float64 blocks
+that stay in cache and stores float32. Beyond that (high l, or many terms) the state's own stable
+recurrences evaluate it, slab by slab, so memory stays bounded at any l.
 """
 
 from __future__ import annotations
 
-import math
 import re
-from collections import defaultdict
 from dataclasses import dataclass, field
+from typing import Any
 
 import numpy as np
 import numpy.typing as npt
 
-from orbviz.errors import ParameterError
-from orbviz.states.angular import mirror_parity
-from orbviz.states.orbital import Orbital
-from orbviz.states.radial import _log_norm
+from orbviz.levels.polynomials import Poly, add, polar_poly, poly_text, radial_text, real_solid_poly
+from orbviz.states.angular import mirror_parity, polar_polynomial
+from orbviz.states.state import Centre, State
+from orbviz.states.symmetry import psi_parity
 
-__all__ = ["Field", "field_of", "field_parity"]
+__all__ = ["Field", "field_kind", "field_of", "field_parity"]
 
-Poly = dict[tuple[int, int, int], float]
 _MAX_HORNER_DEGREE = 14  # beyond this the monomial Laguerre form loses digits in float64
+_MAX_MONOMIALS = 120  # numexpr compiled up to ~150 monomials here; larger ones go direct
+_BLOCK = 1 << 20  # points per block of a direct or tabulated evaluation
+
+Table = tuple[np.ndarray, np.ndarray, float]  # radii, R / r^l there, the centre's z
 
 
-def _mul(a: Poly, b: Poly) -> Poly:
-    out: Poly = defaultdict(float)
-    for ka, va in a.items():
-        for kb, vb in b.items():
-            out[(ka[0] + kb[0], ka[1] + kb[1], ka[2] + kb[2])] += va * vb
-    return dict(out)
+class _TooLarge(Exception):
+    """The expression would exceed what numexpr compiles; evaluate directly instead."""
 
 
-def _add(a: Poly, b: Poly, scale: float = 1.0) -> Poly:
-    out: Poly = defaultdict(float, a)
-    for k, v in b.items():
-        out[k] += scale * v
-    return dict(out)
-
-
-def _theta_poly(l: int, m: int) -> Poly:
-    """S_l^m(z, r^2) of the angular recurrence as a polynomial in x, y, z."""
-    c = math.sqrt((2 * m + 1) / (4 * math.pi))
-    for k in range(1, m + 1):
-        c *= math.sqrt((2 * k - 1) / (2 * k))
-    if m % 2:
-        c = -c
-    prev: Poly = {(0, 0, 0): c}
-    if l == m:
-        return prev
-    z: Poly = {(0, 0, 1): 1.0}
-    r2: Poly = {(2, 0, 0): 1.0, (0, 2, 0): 1.0, (0, 0, 2): 1.0}
-    cur = {k: v * math.sqrt(2 * m + 3) for k, v in _mul(z, prev).items()}
-    for ll in range(m + 2, l + 1):
-        a = math.sqrt((4 * ll * ll - 1) / (ll * ll - m * m))
-        b = math.sqrt(((ll - 1) ** 2 - m * m) / (4 * (ll - 1) ** 2 - 1))
-        nxt = _add(_mul(z, cur), _mul(r2, prev), -b)
-        prev, cur = cur, {k: a * v for k, v in nxt.items()}
-    return cur
-
-
-def _xy_power(m: int) -> tuple[Poly, Poly]:
-    re: Poly = {(0, 0, 0): 1.0}
-    im: Poly = {}
-    x: Poly = {(1, 0, 0): 1.0}
-    y: Poly = {(0, 1, 0): 1.0}
-    for _ in range(m):
-        re, im = _add(_mul(re, x), _mul(im, y), -1.0), _add(_mul(im, x), _mul(re, y))
-    return re, im
-
-
-def _real_solid_poly(l: int, m: int) -> Poly:
-    """r^l S_lm (chemistry signs) as a polynomial; matches :func:`solid_harmonic_real`."""
-    theta = _theta_poly(l, abs(m))
-    if m == 0:
-        return theta
-    re, im = _xy_power(abs(m))
-    factor = math.sqrt(2.0) * (-1) ** abs(m)
-    return {k: factor * v for k, v in _mul(theta, re if m > 0 else im).items()}
-
-
-def _poly_expr(poly: Poly) -> str:
-    terms = []
-    for (a, b, c), v in sorted(poly.items()):
-        if abs(v) < 1e-300:
-            continue
-        factors = [repr(float(v))]
-        factors += [
-            f"{name}**{p}" if p > 1 else name for name, p in (("x", a), ("y", b), ("z", c)) if p
-        ]
-        terms.append("*".join(factors))
-    return "(" + " + ".join(terms) + ")" if terms else "0.0"
-
-
-def _combination_parity(terms) -> tuple[int, int, int]:
-    """Parity on each axis of sum c R_nl S_lm over ((n, l, m), c), c real.
-
-    +1 or -1 where every term with c != 0 agrees, 0 where they disagree; an empty sum is even.
-    """
-    out = []
-    for axis in range(3):
-        seen = {mirror_parity(l, m)[axis] for (_, l, m), c in terms if c != 0}
-        out.append(seen.pop() if len(seen) == 1 else (0 if seen else 1))
-    return out[0], out[1], out[2]
-
-
-def _kind(orbital) -> str:
+def field_kind(state: State) -> str:
     """Which field is contoured (see the module docstring)."""
-    if getattr(orbital, "general", False) or orbital.is_real:
+    if state.is_real:
         return "signed"
-    state = orbital.eigenstate
-    if state is not None and state.form == "complex" and len(orbital.shells) == 1:
+    eig = state.eigenstate
+    if eig is not None and eig.form == "complex" and len(state.shells) == 1:
         return "envelope"
     return "modulus"
 
 
-def field_parity(orbital) -> tuple[int, int, int]:
-    """Mirror parity of an orbital's contoured field on x, y, z: +1 even, -1 odd, 0 neither.
+def field_parity(state: State, kind: str | None = None) -> tuple[int, int, int]:
+    """Mirror parity of a state's contoured field on x, y, z: +1 even, -1 odd, 0 neither.
 
-    Found from the basis alone, without building the field. Signed: the common parity of the
-    terms. Envelope: even in x and y, (-1)^(l - |m|) in z. Modulus |a + ib|: even where a and b
-    each have a parity. Two centres: the parts' shared x and y parity; on z, p * sign when both
-    centres carry the same orbital of z parity p, since psi(-z) = N [p phi(z - h) + sign p
-    phi(z + h)]. Wherever it is nonzero, |psi|^2 is even.
+    Signed: psi's own parity. Envelope: even in x and y, (-1)^(l - |m|) in z. Modulus
+    |a + ib|: even where a and b each have a parity. Wherever it is nonzero, |psi|^2 is even.
     """
-    if getattr(orbital, "general", False):
-        a, b = orbital.a, orbital.b
-        px, py, _ = _combination_parity(list(a.basis) + list(b.basis))
-        same = a.spec == b.spec and a.length_charge == b.length_charge
-        pz = _combination_parity(list(a.basis))[2] * int(orbital.sign) if same else 0
-        return px, py, pz
-    kind = _kind(orbital)
+    kind = kind or field_kind(state)
     if kind == "signed":
-        return _combination_parity([(k, c.real) for k, c in orbital.basis])
+        return psi_parity(state.centres)
     if kind == "envelope":
-        state = orbital.eigenstate
-        return 1, 1, mirror_parity(state.l, state.m)[2]
-    re_p = _combination_parity([(k, c.real) for k, c in orbital.basis])
-    im_p = _combination_parity([(k, c.imag) for k, c in orbital.basis])
-    px, py, pz = (int(bool(a and b)) for a, b in zip(re_p, im_p, strict=True))
+        eig = state.eigenstate
+        assert eig is not None  # field_kind only says envelope for an eigenstate
+        return 1, 1, mirror_parity(eig.l, eig.m)[2]
+    real = psi_parity(state.centres)
+    imag = psi_parity(state.centres, imaginary=True)
+    px, py, pz = (int(bool(a and b)) for a, b in zip(real, imag, strict=True))
     return px, py, pz
 
 
-def _radial_expr(n: int, l: int, Z: float) -> str:
-    """R_nl / r^l as text: N (2Z/n)^l exp(-Zr/n) L_{n-l-1}^{2l+1}(2Zr/n), Horner form."""
-    k, alpha = n - l - 1, 2 * l + 1
-    scale = math.exp(_log_norm(n, l, Z) + l * math.log(2.0 * Z / n))
-    q = 2.0 * Z / n
-    # L_k^alpha(rho) = sum_i (-1)^i C(k + alpha, k - i) rho^i / i!
-    coeffs = [
-        (-1) ** i * math.comb(k + alpha, k - i) / math.factorial(i) * q**i for i in range(k + 1)
-    ]
-    horner = repr(coeffs[-1])
-    for c in reversed(coeffs[:-1]):
-        horner = f"({horner}*R + {c!r})"
-    text = f"{scale!r}*exp({-0.5 * q!r}*R)*{horner}"
-    return text.replace("R", "sqrt(x**2 + y**2 + z**2)")
+class _Builder:
+    """numexpr text of a state's field, with the radial tables it needs."""
+
+    def __init__(self) -> None:
+        self.tables: dict[str, Table] = {}
+        self.monomials = 0
+
+    def radial(self, centre: Centre, n: int, l: int) -> str:
+        orbital = centre.orbital
+        if orbital.potential is None and n - l - 1 <= _MAX_HORNER_DEGREE:
+            return radial_text(n, l, orbital.length_charge)
+        # numerically solved, or too many nodes for the monomial form: tabulate the function
+        # (hydrogen-like R by its stable recurrence) finely and interpolate
+        name = f"R{len(self.tables)}"
+        r = np.linspace(0.0, orbital.radial_extent(n, l, 1e-14), 40001)
+        values = orbital.radial(n, l, r)
+        values[1:] /= r[1:] ** l
+        values[0] = values[1] if l else values[0]
+        self.tables[name] = (r, values, centre.z)
+        return name
+
+    def poly(self, poly: Poly) -> str:
+        self.monomials += len(poly)
+        if self.monomials > _MAX_MONOMIALS:
+            raise _TooLarge
+        return poly_text(poly)
+
+    def centre_text(self, centre: Centre, imaginary: bool) -> str | None:
+        shells: dict[tuple[int, int], Poly] = {}
+        for (n, l, m), c in centre.orbital.basis:
+            part = (c.imag if imaginary else c.real) * centre.weight
+            if part != 0.0:
+                shells[(n, l)] = add(shells.get((n, l), {}), real_solid_poly(l, m), part)
+        if not shells:
+            return None
+        text = " + ".join(
+            f"{self.radial(centre, n, l)}*{self.poly(p)}" for (n, l), p in shells.items()
+        )
+        if centre.z == 0.0:
+            return text
+        return re.sub(r"\bz\b", f"(z - {centre.z!r})", text)
+
+    def part(self, state: State, imaginary: bool) -> str:
+        texts = [self.centre_text(c, imaginary) for c in state.centres]
+        return " + ".join(t for t in texts if t) or "0.0*x"
+
+    def build(self, state: State, kind: str) -> str:
+        if kind == "signed":
+            return self.part(state, imaginary=False)
+        if kind == "modulus":
+            return f"sqrt(({self.part(state, False)})**2 + ({self.part(state, True)})**2)"
+        eig = state.eigenstate
+        assert eig is not None
+        (centre,) = state.centres
+        theta = self.poly(polar_poly(eig.l, abs(eig.m)))
+        rho = f"(x**2 + y**2)**{abs(eig.m) / 2!r}"
+        return f"{self.radial(centre, eig.n, eig.l)}*{theta}*{rho}"
 
 
 @dataclass(frozen=True)
 class Field:
-    """A real scalar field of an orbital, evaluated by one numexpr expression.
+    """A real scalar field of a state (see the module docstring).
 
     Attributes
     ----------
     kind : {"signed", "envelope", "modulus"}
-        Which field (see the module docstring).
-    expression : str
-        numexpr text in x, y, z (bohr).
-    orbital : Orbital
+        Which field.
+    state : State
         The state it belongs to.
+    expression : str or None
+        numexpr text in x, y, z (bohr); None where the field is evaluated directly.
     tables : dict
-        For numerically solved radial functions: variable name -> (r, R / r^l) on a fine
-        uniform grid, interpolated linearly; the grid is then evaluated slab by slab along z.
+        Radial functions interpolated from fine tables: name -> (r, R / r^l, centre z).
     parity : (3,) tuple of int
         How the field behaves under x -> -x, y -> -y, z -> -z: +1 even, -1 odd, 0 neither. A
         sampler may evaluate one side of a mirror plane and copy the other.
     """
 
     kind: str
-    expression: str
-    orbital: Orbital
-    tables: dict = field(default_factory=dict, compare=False, repr=False)
+    state: State
+    expression: str | None = None
+    tables: dict[str, Table] = field(default_factory=dict, compare=False, repr=False)
     parity: tuple[int, int, int] = (0, 0, 0)
+
+    def __repr__(self) -> str:
+        how = "numexpr" if self.expression is not None else "direct"
+        return f"Field({self.kind}, {self.state.label!r}, {how}, parity={self.parity})"
 
     @property
     def two_sided(self) -> bool:
@@ -208,30 +172,58 @@ class Field:
         out: np.ndarray | None = None,
     ) -> np.ndarray:
         """Evaluate at broadcastable coordinates (bohr); into ``out`` (e.g. float32) if given."""
-        import numexpr
-
         x, y, z = np.asarray(x), np.asarray(y), np.asarray(z)
-        if not self.tables:
+        if self.expression is not None and not self.tables:
+            import numexpr
+
             names = {"x": x, "y": y, "z": z}
             return numexpr.evaluate(self.expression, local_dict=names, out=out, casting="unsafe")
         shape = np.broadcast_shapes(x.shape, y.shape, z.shape)
         if out is None:
             out = np.empty(shape)
         if len(shape) == 3 and z.shape[:2] == (1, 1) and x.shape[2] == y.shape[2] == 1:
-            for k in range(shape[2]):  # one z slab at a time keeps the tables' work bounded
-                self._tabulated(x[:, :, 0], y[:, :, 0], z[:, :, k], out[:, :, k])
+            for k in range(shape[2]):  # one z slab at a time keeps the work bounded
+                self._block(x[:, :, 0], y[:, :, 0], z[:, :, k], out[:, :, k])
             return out
-        self._tabulated(x, y, z, out)
+        flat = [np.broadcast_to(a, shape).reshape(-1) for a in (x, y, z)]
+        target = out.reshape(-1)
+        for start in range(0, target.size, _BLOCK):
+            part = slice(start, start + _BLOCK)
+            self._block(flat[0][part], flat[1][part], flat[2][part], target[part])
+        if not np.shares_memory(target, out):
+            out[...] = target.reshape(shape)
         return out
 
-    def _tabulated(self, x, y, z, out) -> None:
+    def _block(self, x: np.ndarray, y: np.ndarray, z: np.ndarray, out: np.ndarray) -> None:
+        x, y, z = np.broadcast_arrays(x, y, z)
+        if self.expression is None:
+            out[...] = self._direct(x, y, z)
+            return
         import numexpr
 
-        r = np.sqrt(x * x + y * y + z * z)
-        names = {"x": x, "y": y, "z": z}
-        for name, (grid, values) in self.tables.items():
-            names[name] = np.interp(r, grid, values)
+        names: dict[str, Any] = {"x": x, "y": y, "z": z}
+        distances: dict[float, np.ndarray] = {}
+        for name, (grid, values, zc) in self.tables.items():
+            if zc not in distances:
+                distances[zc] = np.sqrt(x * x + y * y + (z - zc) ** 2)
+            names[name] = np.interp(distances[zc], grid, values)
         numexpr.evaluate(self.expression, local_dict=names, out=out, casting="unsafe")
+
+    def _direct(self, x: np.ndarray, y: np.ndarray, z: np.ndarray) -> np.ndarray:
+        """Return the field from the state's stable recurrences (float64)."""
+        if self.kind == "signed":
+            return np.real(self.state.psi(x, y, z, dtype=np.float64))
+        if self.kind == "modulus":
+            return np.abs(self.state.psi(x, y, z, dtype=np.float64))
+        eig = self.state.eigenstate
+        assert eig is not None
+        (centre,) = self.state.centres
+        x, y, z = (a.astype(np.float64, copy=False) for a in (x, y, z))
+        rho2 = x * x + y * y
+        r2 = rho2 + z * z
+        radial = centre.orbital.reduced_radial(eig.n, eig.l, np.sqrt(r2), dtype=np.float64)
+        mm = abs(eig.m)
+        return radial * polar_polynomial(eig.l, mm, z, r2) * rho2 ** (mm / 2)
 
     def value_and_gradient(
         self, points: np.ndarray, step: float = 1e-4
@@ -259,58 +251,13 @@ class Field:
         return values[0], grad
 
 
-def field_of(orbital: Orbital, /) -> Field:
-    """Build the contoured field of an orbital (see the module docstring)."""
-    if getattr(orbital, "general", False):  # two centres: shift each field along z
-        half = orbital.R / 2
-        parts = []
-        for part, shift, weight in ((orbital.a, half, 1.0), (orbital.b, -half, orbital.sign)):
-            own = field_of(part)
-            if own.tables:
-                raise ParameterError(
-                    f"bond(...) surfaces need orbitals with at most {_MAX_HORNER_DEGREE} radial "
-                    "nodes"
-                )
-            text = re.sub(r"\bz\b", f"(z + {shift!r})", own.expression)
-            parts.append(f"{weight * orbital.norm!r}*({text})")
-        return Field("signed", " + ".join(parts), orbital, parity=field_parity(orbital))
-    Z = orbital.length_charge
-    state = orbital.eigenstate
-    tables: dict[str, tuple[np.ndarray, np.ndarray]] = {}
-
-    def radial(n: int, l: int) -> str:
-        if orbital.potential is None and n - l - 1 <= _MAX_HORNER_DEGREE:
-            return _radial_expr(n, l, Z)
-        # numerically solved, or too many nodes for the monomial form: tabulate the function
-        # (hydrogen-like R by its stable recurrence) finely and interpolate
-        name = f"R{len(tables)}"
-        r = np.linspace(0.0, orbital.radial_extent(n, l, 1e-14), 40001)
-        values = orbital.radial(n, l, r)
-        values[1:] /= r[1:] ** l
-        values[0] = values[1] if l else values[0]
-        tables[name] = (r, values)
-        return name
-
-    kind = _kind(orbital)
-    if kind == "signed":
-        shells: dict[tuple[int, int], Poly] = {}
-        for (n, l, m), c in orbital.basis:
-            shells[(n, l)] = _add(shells.get((n, l), {}), _real_solid_poly(l, m), c.real)
-        text = " + ".join(f"{radial(n, l)}*{_poly_expr(p)}" for (n, l), p in shells.items())
-        return Field("signed", text, orbital, tables, field_parity(orbital))
-    if kind == "envelope":
-        n, l, m = state.n, state.l, state.m
-        theta = _poly_expr(_theta_poly(l, abs(m)))
-        rho = f"(x**2 + y**2)**{abs(m) / 2!r}"
-        expression = f"{radial(n, l)}*{theta}*{rho}"
-        return Field("envelope", expression, orbital, tables, field_parity(orbital))
-    real_part: dict[tuple[int, int], Poly] = {}
-    imag_part: dict[tuple[int, int], Poly] = {}
-    for (n, l, m), c in orbital.basis:
-        poly = _real_solid_poly(l, m)
-        real_part[(n, l)] = _add(real_part.get((n, l), {}), poly, c.real)
-        imag_part[(n, l)] = _add(imag_part.get((n, l), {}), poly, c.imag)
-    real_text = " + ".join(f"{radial(n, l)}*{_poly_expr(p)}" for (n, l), p in real_part.items())
-    imag_text = " + ".join(f"{radial(n, l)}*{_poly_expr(p)}" for (n, l), p in imag_part.items())
-    text = f"sqrt(({real_text})**2 + ({imag_text})**2)"
-    return Field("modulus", text, orbital, tables, field_parity(orbital))
+def field_of(state: State, /) -> Field:
+    """Build the contoured field of a state (see the module docstring)."""
+    kind = field_kind(state)
+    builder = _Builder()
+    try:
+        expression: str | None = builder.build(state, kind)
+        tables = builder.tables
+    except _TooLarge:
+        expression, tables = None, {}
+    return Field(kind, state, expression, tables, field_parity(state, kind))

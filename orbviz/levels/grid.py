@@ -24,11 +24,11 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from orbviz._defaults import DEFAULTS
+from orbviz._defaults import DEFAULTS, LIMITS
 from orbviz.errors import ParameterError
 from orbviz.levels.fields import Field
 from orbviz.levels.isovalue import Isovalue
-from orbviz.states.orbital import Orbital
+from orbviz.states.state import State
 
 __all__ = [
     "Grid",
@@ -123,38 +123,22 @@ class Grid:
 
 
 def check_grid_points(points: object) -> int:
-    """Validate a grid size: an integer from 16 to 2048 samples per axis."""
+    """Validate a grid size: a whole number of samples per axis in the supported range."""
+    low, high = LIMITS.grid_min, LIMITS.grid_max
     if isinstance(points, bool) or not isinstance(points, (int, np.integer)):
-        raise ParameterError(f"grid size must be an integer, got {points!r}")
-    if not 16 <= int(points) <= 2048:
-        raise ParameterError(
-            f"grid size must be between 16 and 2048 samples per axis, got {points}"
-        )
+        raise ParameterError(f"grid: expected a whole number from {low} to {high}, got {points!r}")
+    if not low <= int(points) <= high:
+        raise ParameterError(f"grid: expected a whole number from {low} to {high}, got {points}")
     return int(points)
 
 
-def radial_quantile(orbital: Orbital, q: float) -> float:
-    """Radius (bohr) inside which the fraction ``q`` of the probability lies."""
-    r_max = max(orbital.radial_extent(n, l) for n, l in orbital.shells)
-    u = np.linspace(0.0, 1.0, 20001)
-    r = r_max * u * u
-    p = orbital.radial_distribution(r) * 2.0 * r_max * u
-    cumulative = np.concatenate([[0.0], np.cumsum(0.5 * (p[1:] + p[:-1]) * np.diff(u))])
-    return float(np.interp(q * cumulative[-1], cumulative, r))
-
-
-def box_half_width(orbital: Orbital, iso: Isovalue, points: int) -> float:
+def box_half_width(state: State, iso: Isovalue, points: int) -> float:
     """Half the side (bohr) of a cube holding ``box_coverage`` of the probability and the surface.
 
     The cube contains the sphere of radius half_width, so the radial quantile suffices for the
     coverage; the surface, which reaches ``iso.max_radius``, keeps three cells clear of the faces.
     """
-    if getattr(orbital, "general", False):  # two centres: each orbital's coverage, off centre
-        coverage = orbital.R / 2 + max(
-            radial_quantile(o, DEFAULTS.box_coverage) for o in (orbital.a, orbital.b)
-        )
-    else:
-        coverage = radial_quantile(orbital, DEFAULTS.box_coverage)
+    coverage = state.radial_quantile(DEFAULTS.box_coverage)
     cells = points - 1
     clear = iso.max_radius * cells / (cells - 2 * _MARGIN_CELLS)
     return max(coverage, clear)

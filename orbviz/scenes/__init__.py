@@ -1,1 +1,1 @@
-"""Scenes: scene files, the batch runner and the contact sheet."""
+"""Scenes: scene files, the batch runner, its manifest and lock, and the contact sheet."""

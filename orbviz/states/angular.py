@@ -20,6 +20,8 @@ __all__ = [
     "label_of",
     "lm_of_label",
     "mirror_parity",
+    "polar_polynomial",
+    "polar_start",
     "real_harmonic",
     "solid_harmonic_complex",
     "solid_harmonic_real",
@@ -66,7 +68,15 @@ def label_of(n: int, l: int, m: int, *, real: bool = True) -> str:
     return f"{n},{l},{m}"
 
 
-def _theta_polynomial(l: int, m: int, z: np.ndarray, r2: np.ndarray | float) -> np.ndarray:
+def polar_start(m: int) -> float:
+    """S_m^m = (-1)^m sqrt((2m+1)/4pi prod_{k<=m} (2k-1)/(2k)), the recurrence's first term."""
+    c = math.sqrt((2 * m + 1) / (4 * math.pi))
+    for k in range(1, m + 1):
+        c *= math.sqrt((2 * k - 1) / (2 * k))
+    return -c if m % 2 else c
+
+
+def polar_polynomial(l: int, m: int, z: np.ndarray, r2: np.ndarray | float) -> np.ndarray:
     """S_l^m(z, r^2) with r^l Y_l^m = S_l^m (x + iy)^m, for 0 <= m <= l.
 
     The normalised associated-Legendre recurrence in l at fixed m (stable to high degree):
@@ -74,11 +84,7 @@ def _theta_polynomial(l: int, m: int, z: np.ndarray, r2: np.ndarray | float) -> 
     S_l^m = a (z S_{l-1}^m - b r^2 S_{l-2}^m), a = sqrt((4l^2-1)/(l^2-m^2)),
     b = sqrt(((l-1)^2-m^2)/(4(l-1)^2-1)).
     """
-    c = math.sqrt((2 * m + 1) / (4 * math.pi))
-    for k in range(1, m + 1):
-        c *= math.sqrt((2 * k - 1) / (2 * k))
-    if m % 2:
-        c = -c
+    c = polar_start(m)
     dtype = z.dtype
     prev = np.full_like(z, c)
     if l == m:
@@ -132,7 +138,7 @@ def solid_harmonic_real(
     x, y, z = _as_float(x, y, z)
     r2 = x * x + y * y + z * z
     mm = abs(m)
-    poly = _theta_polynomial(l, mm, z, r2)
+    poly = polar_polynomial(l, mm, z, r2)
     if m == 0:
         return poly
     re, im = _xy_power(mm, x, y)
@@ -150,7 +156,7 @@ def solid_harmonic_complex(
     x, y, z = _as_float(x, y, z)
     r2 = x * x + y * y + z * z
     mm = abs(m)
-    poly = _theta_polynomial(l, mm, z, r2)
+    poly = polar_polynomial(l, mm, z, r2)
     re, im = _xy_power(mm, x, y)
     if m < 0:
         im = -im

@@ -22,7 +22,14 @@ from __future__ import annotations
 
 from orbviz.errors import SpecError
 
-__all__ = ["SYMBOLS", "configuration", "configuration_text", "element", "slater_charge"]
+__all__ = [
+    "SYMBOLS",
+    "configuration",
+    "configuration_text",
+    "element",
+    "screened_charge",
+    "slater_charge",
+]
 
 SYMBOLS = (
     "H He Li Be B C N O F Ne Na Mg Al Si P S Cl Ar K Ca Sc Ti V Cr Mn Fe Co Ni Cu Zn Ga Ge As "
@@ -108,3 +115,37 @@ def slater_charge(Z: int, n: int, l: int) -> float:
         else:
             screening += count * 1.00
     return round(Z - screening, 10)  # the rules work in steps of 0.05: no float noise
+
+
+def screened_charge(
+    symbol: str, shells: list[tuple[int, int]], spec: str
+) -> tuple[str, float, str]:
+    """Slater's charge shared by the named (n, l) electrons of an element.
+
+    Returns
+    -------
+    (str, float, str)
+        The element's symbol, the effective charge, and a note for the user.
+
+    Raises
+    ------
+    SpecError
+        If the element is unknown, has no such electron, or the electrons named belong to
+        Slater groups with different charges.
+    """
+    nucleus = element(symbol)
+    name = SYMBOLS[nucleus - 1]
+    charges = {(n, l): slater_charge(nucleus, n, l) for n, l in shells}
+    if len(set(charges.values())) != 1:
+        listed = ", ".join(f"{n}{_LETTER[l]}: {c:.2f}" for (n, l), c in charges.items())
+        raise SpecError(
+            f"{spec!r} mixes electrons with different Slater charges ({listed}); "
+            "name states of one Slater group"
+        )
+    charge = next(iter(charges.values()))
+    note = (
+        f"screened hydrogen-like orbital of {name} (Z = {nucleus}, "
+        f"{configuration_text(nucleus)}): Slater's Z_eff = {charge:.2f}; its energy "
+        "-Z_eff^2/2n^2 is a rough estimate"
+    )
+    return name, charge, note

@@ -10,32 +10,26 @@ quadrature in prolate spheroidal coordinates, and normalises psi: N = 1 / sqrt(2
 from __future__ import annotations
 
 import math
-import re
 from dataclasses import dataclass, field
+from typing import TYPE_CHECKING, NoReturn
 
 import numpy as np
 import numpy.typing as npt
 
-from orbviz.errors import SpecError
+from orbviz._defaults import LIMITS
+from orbviz.errors import SpecError, Unsupported
+from orbviz.states.state import Centre, NodalSurfaces, Properties
+from orbviz.states.symmetry import psi_parity
 
-__all__ = ["Bond", "overlap", "parse_bond"]
-
-_BOND = re.compile(
-    r"\s*bond\s*\(\s*([^,()]+?)\s*,\s*([^,()]+?)\s*,\s*R\s*=\s*([0-9.eE+-]+)\s*,\s*([+-])\s*\)\s*$",
-    re.I,
-)
-
-
-def _centred(spec: str, Z: float):
+if TYPE_CHECKING:
+    from orbviz.states.dynamics import Beat
     from orbviz.states.orbital import Orbital
+    from orbviz.states.spec import Atom
 
-    orbital = Orbital.from_spec(spec, Z=Z)
-    if orbital.eigenstate is None or not orbital.is_real:
-        raise SpecError(f"bond(...) takes real orbital labels such as 1s or 2pz, got {spec!r}")
-    return orbital
+__all__ = ["Bond", "overlap"]
 
 
-def overlap(a, b, R: float, points: int = 64) -> float:
+def overlap(a: Orbital, b: Orbital, R: float, points: int = 64) -> float:
     """S = integral of phi_a(r - R_a) phi_b(r - R_b) dV, nuclei at z = -R/2 and +R/2.
 
     Prolate spheroidal coordinates: mu in [1, inf) by Gauss-Laguerre, nu in [-1, 1] by
@@ -59,12 +53,12 @@ def overlap(a, b, R: float, points: int = 64) -> float:
 
 @dataclass(frozen=True)
 class Bond:
-    """A two-centre combination; offers the parts of the Orbital interface the pipeline uses.
+    """A two-centre combination; a :class:`orbviz.states.state.State`.
 
     Attributes
     ----------
     a, b : Orbital
-        The orbitals on the nuclei at z = -R/2 (a) and z = +R/2 (b).
+        Real one-centre orbitals on the nuclei at z = -R/2 (a) and z = +R/2 (b).
     R : float
         Internuclear distance, bohr.
     sign : float
@@ -73,21 +67,45 @@ class Bond:
         The text it came from.
     S : float
         Overlap of a and b.
+    notes : tuple of str
+        Remarks for the user.
     """
 
-    a: object
-    b: object
+    a: Orbital
+    b: Orbital
     R: float
     sign: float
     spec: str
     S: float
-    notes: tuple = field(default=())
-    general = True  # sampled as a whole, not shell by shell
-    potential = None
-    element = None
-    eigenstate = None
-    is_real = True
+    notes: tuple[str, ...] = field(default=())
 
+    @classmethod
+    def combine(cls, a: Orbital, b: Orbital, R: float, sign: float, spec: str) -> Bond:
+        """Check the parts and the distance, compute the overlap, and build the combination."""
+        for part in (a, b):
+            if part.eigenstate is None or not part.is_real:
+                raise SpecError(
+                    f"bond(...) takes real orbital labels such as 1s or 2pz, got {part.spec!r}"
+                )
+        low, high = LIMITS.bond_distance_min, LIMITS.bond_distance_max
+        if not (math.isfinite(R) and low <= R <= high):
+            raise SpecError(
+                f"bond distance R must be from {low:g} to {high:g} bohr (the supported range), "
+                f"got R={R:g}"
+            )
+        S = overlap(a, b, R)
+        if 1.0 + sign * S < 1e-8:
+            raise SpecError(f"{spec!r} vanishes: the two orbitals cancel (overlap {S:.6g})")
+        note = (
+            "an unoptimised LCAO combination for showing shapes, not a molecular calculation; "
+            f"overlap S = {S:.6f}"
+        )
+        return cls(a, b, R, sign, spec.strip(), S, (note, *a.notes, *b.notes))
+
+    def __repr__(self) -> str:
+        return f"Bond({self.spec!r}, R={self.R:g} bohr, S={self.S:.6f})"
+
+    # ----------------------------------------------------------------- what it is
     @property
     def norm(self) -> float:
         """N = 1 / sqrt(2 (1 + sign S)) (both orbitals are normalised)."""
@@ -99,11 +117,40 @@ class Bond:
         return self.spec
 
     @property
+    def kind(self) -> str:
+        """In words."""
+        return "two-centre combination"
+
+    @property
+    def is_real(self) -> bool:
+        """Always: the parts are real orbitals."""
+        return True
+
+    @property
+    def eigenstate(self) -> Atom | None:
+        """None: a combination of two centres is no single state."""
+        return None
+
+    @property
+    def shells(self) -> list[tuple[int, int]]:
+        """None about the origin: the nuclei sit off it."""
+        return []
+
+    @property
+    def centres(self) -> tuple[Centre, ...]:
+        """A at z = -R/2 with weight N, b at z = +R/2 with weight sign N."""
+        half = self.R / 2
+        return (Centre(-half, self.norm, self.a), Centre(half, self.sign * self.norm, self.b))
+
+    @property
     def Z(self) -> float:  # noqa: N802 - the physics name
         """The orbitals' nuclear charge."""
         return self.a.Z
 
-    def psi(self, x: npt.ArrayLike, y: npt.ArrayLike, z: npt.ArrayLike, *, dtype=None):
+    # ----------------------------------------------------------------- evaluation
+    def psi(
+        self, x: npt.ArrayLike, y: npt.ArrayLike, z: npt.ArrayLike, *, dtype: npt.DTypeLike = None
+    ) -> np.ndarray:
         """Evaluate psi at Cartesian points (bohr); the nuclei's midpoint is the origin."""
         z = np.asarray(z)
         half = self.R / 2
@@ -111,40 +158,51 @@ class Bond:
         pb = self.b.psi(x, y, z - half, dtype=dtype)
         return self.norm * (pa + self.sign * pb)
 
-    def density(self, x, y, z):
+    def density(self, x: npt.ArrayLike, y: npt.ArrayLike, z: npt.ArrayLike) -> np.ndarray:
         """|psi|^2."""
         value = self.psi(x, y, z)
         return value * value
 
-    def extent(self) -> float:
-        """Return a radius from the midpoint beyond which the density is negligible."""
-        ((n, l),) = self.a.shells
-        ((m, k),) = self.b.shells
-        return self.R / 2 + max(self.a.radial_extent(n, l), self.b.radial_extent(m, k))
+    def extent(self, tail: float = 1e-13) -> float:
+        """Radius from the midpoint beyond which the density is negligible."""
+        return self.R / 2 + max(self.a.extent(tail), self.b.extent(tail))
 
-    def radial_extent(self, n, l, tail=1e-13):  # noqa: D102 - box sizing through the grid
-        return self.extent()
+    def radial_quantile(self, q: float) -> float:
+        """Radius about the midpoint of a sphere holding at least ``q``: each part's, off centre.
 
+        Each orbital holds q within its own quantile radius, and that ball lies inside the ball
+        of radius R/2 + that radius about the midpoint.
+        """
+        return self.R / 2 + max(self.a.radial_quantile(q), self.b.radial_quantile(q))
 
-def parse_bond(spec: str, *, Z: float | None = None) -> Bond | None:
-    """``bond(A,B,R=2.0,+)`` -> Bond; None if the text is not a bond."""
-    match = _BOND.fullmatch(spec) if isinstance(spec, str) else None
-    if match is None:
-        return None
-    try:
-        R = float(match.group(3))
-    except ValueError:
-        raise SpecError(f"bond distance must be a number of bohr, got {match.group(3)!r}") from None
-    if not (math.isfinite(R) and R > 0):
-        raise SpecError(f"bond distance R must be > 0 bohr, got {R}")
-    charge = 1.0 if Z is None else Z
-    a, b = _centred(match.group(1), charge), _centred(match.group(2), charge)
-    sign = 1.0 if match.group(4) == "+" else -1.0
-    S = overlap(a, b, R)
-    if 1.0 + sign * S < 1e-8:
-        raise SpecError(f"{spec!r} vanishes: the two orbitals cancel (overlap {S:.6g})")
-    note = (
-        "an unoptimised LCAO combination for showing shapes, not a molecular calculation; "
-        f"overlap S = {S:.6f}"
-    )
-    return Bond(a, b, R, sign, spec.strip(), S, (note,))
+    # ----------------------------------------------------------------- physics
+    def properties(self) -> Properties:
+        """No energy (an unoptimised LCAO has none): distance, overlap and normalisation."""
+        return Properties(
+            form="real",
+            extra={"bond_distance_bohr": self.R, "overlap": self.S, "normalisation": self.norm},
+        )
+
+    def nodal_surfaces(self) -> NodalSurfaces:
+        """Return the mirror planes across which psi changes sign (the antibonding z = 0 plane)."""
+        normals = ((1.0, 0.0, 0.0), (0.0, 1.0, 0.0), (0.0, 0.0, 1.0))
+        parity = psi_parity(self.centres)
+        return NodalSurfaces(planes=tuple(n for n, p in zip(normals, parity, strict=True) if p < 0))
+
+    def radial_distribution(self, r: npt.ArrayLike) -> NoReturn:
+        """Unsupported: the density is not centred on one nucleus."""
+        raise Unsupported(
+            "a bond has no single radial distribution: plot --kind slice works, --kind radial "
+            "does not"
+        )
+
+    def evolve(self, t: float) -> NoReturn:
+        """Unsupported: an unoptimised LCAO has no energies to evolve with."""
+        raise Unsupported(
+            "a bond has no energies, so it does not move in time: animate takes superpositions "
+            "of one-centre states such as '1s + 2pz'"
+        )
+
+    def beat(self) -> Beat:
+        """Unsupported, as :meth:`evolve`."""
+        self.evolve(0.0)

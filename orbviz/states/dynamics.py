@@ -10,15 +10,14 @@ import cmath
 import math
 from dataclasses import dataclass, replace
 from fractions import Fraction
+from typing import TYPE_CHECKING
 
-from orbviz.errors import OrbvizError
-from orbviz.states.orbital import Orbital
+from orbviz.errors import StationaryError
 
-__all__ = ["StationaryError", "atomic_time_fs", "beat_period", "evolve"]
+if TYPE_CHECKING:
+    from orbviz.states.orbital import Orbital
 
-
-class StationaryError(OrbvizError, ValueError):
-    """The state's density does not move: every component has the same energy."""
+__all__ = ["Beat", "atomic_time_fs", "beat_period", "evolve"]
 
 
 def atomic_time_fs() -> float:

@@ -23,14 +23,11 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from orbviz.errors import OrbvizError, ParameterError
+from orbviz.errors import NoBoundState, ParameterError
 from orbviz.states.potentials import Potential
+from orbviz.states.radial import check_quantum_numbers
 
-__all__ = ["NoBoundState", "RadialSolution", "solve_radial"]
-
-
-class NoBoundState(OrbvizError, ValueError):
-    """The potential has no bound state with the asked n and l."""
+__all__ = ["RadialSolution", "solve_radial"]
 
 
 @dataclass(frozen=True)
@@ -160,8 +157,6 @@ def solve_radial(
     NoBoundState
         If that state lies at or above the potential's value at infinity.
     """
-    from orbviz.states.radial import check_quantum_numbers
-
     n, l, _ = check_quantum_numbers(n, l)
     if points < 200:
         raise ParameterError(f"need at least 200 grid points, got {points}")

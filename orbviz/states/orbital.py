@@ -1,19 +1,25 @@
-"""The :class:`Orbital`: one hydrogen-like eigenstate or a normalised superposition of them."""
+"""The :class:`Orbital`: one hydrogen-like eigenstate or a normalised superposition of them.
+
+It is the one-centre kind of :class:`orbviz.states.state.State`: eigenstates in real or complex
+form, superpositions, hybrids, screened atoms (``Na:3s``) and states whose radial parts are solved
+numerically in another central potential.
+"""
 
 from __future__ import annotations
 
 import cmath
 import math
-import re
 from collections.abc import Iterable
 from dataclasses import dataclass, field, replace
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 import numpy.typing as npt
 
-from orbviz._defaults import DEFAULTS
+from orbviz._defaults import DEFAULTS, LIMITS
 from orbviz.errors import ParameterError, SpecError
 from orbviz.states.angular import label_of, solid_harmonic_real
+from orbviz.states.atoms import screened_charge
 from orbviz.states.radial import (
     check_charge,
     check_quantum_numbers,
@@ -23,21 +29,17 @@ from orbviz.states.radial import (
     radial_function_reduced,
     radial_node_radii,
 )
-from orbviz.states.spec import Atom, parse_spec
+from orbviz.states.spec import Atom, is_bond, parse_spec, shorthand_shells, split_element
+from orbviz.states.state import Centre, NodalSurfaces, Properties
 
-__all__ = ["Orbital", "proton_mass_ratio"]
+if TYPE_CHECKING:
+    from orbviz.states.dynamics import Beat
+    from orbviz.states.numerical import RadialSolution
+    from orbviz.states.potentials import Potential
+
+__all__ = ["Orbital"]
 
 _SQRT_HALF = math.sqrt(0.5)
-_ELEMENT_PREFIX = re.compile(r"\s*([A-Za-z]{1,2})\s*:(.*)$", re.S)
-_BARE_SHELL = re.compile(r"(?<![\d,.])(\d+)([pdfPDF])(?![a-zA-Z0-9(])")
-_M0_LABEL = {"p": "z", "d": "z2", "f": "z3"}
-
-
-def proton_mass_ratio() -> float:
-    """Reduced mass over electron mass for hydrogen, 1 / (1 + m_e/m_p), from CODATA (scipy)."""
-    from scipy.constants import physical_constants
-
-    return 1.0 / (1.0 + 1.0 / physical_constants["proton-electron mass ratio"][0])
 
 
 def _real_basis(atom: Atom) -> dict[tuple[int, int, int], complex]:
@@ -56,9 +58,28 @@ def _real_basis(atom: Atom) -> dict[tuple[int, int, int], complex]:
     return {(n, l, k): c * _SQRT_HALF, (n, l, -k): -1j * c * _SQRT_HALF}
 
 
+def _normalised(
+    merged: dict[tuple[int, int, int], complex], spec: str
+) -> tuple[dict[tuple[int, int, int], complex], float, list[str]]:
+    """Scale coefficients to unit norm (by the largest first, so no weight can overflow)."""
+    scale = max(abs(v) for v in merged.values())
+    if scale == 0 or not math.isfinite(scale):
+        raise SpecError(f"the superposition {spec!r} is zero: its terms cancel")
+    scaled = {k: v / scale for k, v in merged.items()}
+    norm = math.sqrt(sum(abs(v) ** 2 for v in scaled.values()))
+    keep = {
+        k: v / norm for k, v in sorted(scaled.items()) if abs(v) > DEFAULTS.coefficient_tolerance
+    }
+    notes = []
+    given = norm * scale
+    if abs(given - 1.0) > 1e-9:
+        notes.append(f"weights normalised: their norm was {given:.6g}")
+    return keep, given, notes
+
+
 @dataclass(frozen=True)
 class Orbital:
-    """A normalised hydrogen-like state: psi = sum_k b_k R_{n_k l_k}(r) S_{l_k m_k}(direction).
+    """A normalised one-centre state: psi = sum_k b_k R_{n_k l_k}(r) S_{l_k m_k}(direction).
 
     Build one with :meth:`from_spec` or :meth:`from_atoms`; the coefficients are held in the
     orthonormal basis of real orbitals, so norms and overlaps are exact.
@@ -68,7 +89,7 @@ class Orbital:
     basis : tuple of ((n, l, m_real), complex)
         Normalised coefficients on real orbitals, sorted by (n, l, m).
     Z : float
-        Nuclear charge.
+        Nuclear charge (Slater's effective charge for a screened orbital).
     mass_ratio : float
         Reduced mass over electron mass (1.0: infinite nuclear mass, no correction).
     spec : str
@@ -81,7 +102,7 @@ class Orbital:
         Remarks for the user (normalisation applied, global phase removed).
     element : str or None
         For a screened orbital (``Na:3s``), the element whose Slater charge is ``Z``.
-    potential : orbviz.states.potentials.Potential or None
+    potential : Potential or None
         A central potential other than -Z/r; its radial functions are solved numerically
         (:mod:`orbviz.states.numerical`), one solution per (n, l), kept in ``solutions``.
 
@@ -99,8 +120,15 @@ class Orbital:
     given_norm: float = 1.0
     notes: tuple[str, ...] = field(default=())
     element: str | None = None
-    potential: object = None
-    solutions: dict = field(default_factory=dict, compare=False, repr=False)
+    potential: Potential | None = None
+    solutions: dict[tuple[int, int], RadialSolution] = field(
+        default_factory=dict, compare=False, repr=False
+    )
+
+    def __repr__(self) -> str:
+        extra = f", element={self.element!r}" if self.element else ""
+        extra += f", potential={self.potential.describe()!r}" if self.potential else ""
+        return f"Orbital({self.spec!r}, Z={self.Z:g}, terms={len(self.basis)}{extra})"
 
     # ----------------------------------------------------------------- construction
     @classmethod
@@ -112,86 +140,62 @@ class Orbital:
         Z: float | None = None,
         real: bool = False,
         mass_ratio: float = 1.0,
-        potential=None,
+        potential: Potential | None = None,
     ) -> Orbital:
-        """Parse spec text (see :mod:`orbviz.states.spec`) into a normalised orbital.
+        """Parse one-centre spec text (see :mod:`orbviz.states.spec`) into a normalised orbital.
 
         Parameters
         ----------
         spec : str
-            E.g. ``"3dz2"``, ``"4,2,-1"``, ``"0.5*2s + 0.866*2pz"``.
+            E.g. ``"3dz2"``, ``"4,2,-1"``, ``"0.5*2s + 0.866*2pz"``, ``"Na:3s"``.
         Z : float, optional
-            Nuclear charge, > 0 (default 1). Not with an element prefix, which sets it.
+            Nuclear charge (default 1). Not with an element prefix, which sets it.
         real : bool, default: False
             Read ``n,l,m`` states as real combinations rather than Lz eigenstates.
         mass_ratio : float, default: 1.0
-            Reduced mass over electron mass; see :func:`proton_mass_ratio`.
-        potential : orbviz.states.potentials.Potential, optional
+            Reduced mass over electron mass.
+        potential : Potential, optional
             Solve the radial functions numerically in this potential instead of -Z/r.
-        """
-        if isinstance(spec, str) and spec.lstrip().lower().startswith("bond"):
-            from orbviz.states.bond import parse_bond
 
-            bond = parse_bond(spec, Z=Z)
-            if bond is None:
-                raise SpecError(f"bond needs the form bond(1s,1s,R=2.0,+), got {spec!r}")
-            return bond
-        prefix = _ELEMENT_PREFIX.match(spec) if isinstance(spec, str) else None
-        shorthand = []
-        if prefix:  # with an element, a bare shell (C:2p, Fe:3d) means its m = 0 member
-            text = _BARE_SHELL.sub(
-                lambda m: (
-                    shorthand.append(m.group(0)) or m.group(0) + _M0_LABEL[m.group(2).lower()]
-                ),
-                prefix.group(2),
+        Raises
+        ------
+        SpecError
+            For text outside the grammar, or a two-centre ``bond(...)``, which is not one
+            orbital (``orbviz.state`` builds every kind).
+        """
+        if is_bond(spec):
+            raise SpecError(
+                f"{spec!r} is a two-centre combination, not a one-centre Orbital: "
+                "use orbviz.state(...) for every kind of state"
             )
-            atoms = parse_spec(text)
-        else:
-            atoms = parse_spec(spec)
+        symbol, body = split_element(spec)
+        shorthand: list[str] = []
+        if symbol is not None:  # with an element, a bare shell (C:2p) means its m = 0 member
+            body, shorthand = shorthand_shells(body)
+        atoms = parse_spec(body)
         if real:
             atoms = [Atom(a.n, a.l, a.m, "real", a.coefficient) for a in atoms]
-        if prefix is None:
+        text = spec.strip()
+        if symbol is None:
             orbital = cls.from_atoms(
-                atoms, Z=1.0 if Z is None else Z, mass_ratio=mass_ratio, spec=spec.strip()
+                atoms, Z=1.0 if Z is None else Z, mass_ratio=mass_ratio, spec=text
             )
             return orbital if potential is None else orbital.in_potential(potential)
         if potential is not None:
-            raise SpecError(f"{spec!r}: an element prefix and a potential cannot be combined")
-        orbital = cls._screened(prefix.group(1), atoms, Z, mass_ratio, spec.strip())
+            raise SpecError(f"{text!r}: an element prefix and a potential cannot be combined")
+        if Z is not None:
+            raise SpecError(f"{text!r}: the element prefix sets the charge; leave out Z")
+        for a in atoms:
+            check_quantum_numbers(a.n, a.l, a.m)
+        name, charge, note = screened_charge(symbol, [(a.n, a.l) for a in atoms], text)
+        orbital = cls.from_atoms(atoms, Z=charge, mass_ratio=mass_ratio, spec=text)
+        notes = [note, *orbital.notes]
         if shorthand:
-            note = (
+            notes.append(
                 f"{', '.join(shorthand)} taken as the m = 0 real orbital; name a component "
                 "(e.g. 2px, 3dxy) for another"
             )
-            orbital = replace(orbital, notes=(*orbital.notes, note))
-        return orbital
-
-    @classmethod
-    def _screened(cls, symbol: str, atoms, Z, mass_ratio: float, spec: str) -> Orbital:
-        """Build a hydrogen-like orbital with Slater's effective charge (orbviz.states.atoms)."""
-        from orbviz.states.atoms import SYMBOLS, configuration_text, element, slater_charge
-
-        if Z is not None:
-            raise SpecError(f"{spec!r}: the element prefix sets the charge; leave out Z")
-        nucleus = element(symbol)
-        name = SYMBOLS[nucleus - 1]
-        for a in atoms:
-            check_quantum_numbers(a.n, a.l, a.m)
-        charges = {(a.n, a.l): slater_charge(nucleus, a.n, a.l) for a in atoms}
-        if len(set(charges.values())) != 1:
-            listed = ", ".join(f"{n}{'spdf'[l]}: {c:.2f}" for (n, l), c in charges.items())
-            raise SpecError(
-                f"{spec!r} mixes electrons with different Slater charges ({listed}); "
-                "name states of one Slater group"
-            )
-        charge = next(iter(charges.values()))
-        orbital = cls.from_atoms(atoms, Z=charge, mass_ratio=mass_ratio, spec=spec)
-        note = (
-            f"screened hydrogen-like orbital of {name} (Z = {nucleus}, "
-            f"{configuration_text(nucleus)}): Slater's Z_eff = {charge:.2f}; its energy "
-            "-Z_eff^2/2n^2 is a rough estimate"
-        )
-        return replace(orbital, element=name, notes=(note, *orbital.notes))
+        return replace(orbital, element=name, notes=tuple(notes))
 
     @classmethod
     def from_atoms(
@@ -209,18 +213,12 @@ class Orbital:
             check_quantum_numbers(atom.n, atom.l, atom.m)
             for key, value in _real_basis(atom).items():
                 merged[key] = merged.get(key, 0j) + value
-        norm = math.sqrt(sum(abs(v) ** 2 for v in merged.values()))
-        scale = max(abs(v) for v in merged.values())
-        if norm == 0 or norm < 1e-12 * max(abs(a.coefficient) for a in atoms):
-            raise SpecError(f"the superposition {spec!r} is zero: its terms cancel")
-        keep = {
-            k: v / norm
-            for k, v in sorted(merged.items())
-            if abs(v) > DEFAULTS.coefficient_tolerance * scale
-        }
-        notes = []
-        if abs(norm - 1.0) > 1e-9:
-            notes.append(f"weights normalised: their norm was {norm:.6g}")
+        if len(merged) > LIMITS.terms_max:
+            raise SpecError(
+                f"{spec!r} has {len(merged)} distinct states; at most {LIMITS.terms_max} are "
+                "supported in one superposition"
+            )
+        keep, given, notes = _normalised(merged, spec)
         values = np.array(list(keep.values()))
         if np.any(np.abs(values.imag) > 1e-12):
             big = values[np.argmax(np.abs(values))]
@@ -229,9 +227,17 @@ class Orbital:
                 keep = {k: complex((v * turn).real) for k, v in keep.items()}
                 notes.append(f"global phase {cmath.phase(big):+.6g} rad removed: the state is real")
         basis = tuple((k, complex(v)) for k, v in keep.items())
-        return cls(basis, Z, float(mass_ratio), spec, atoms, norm, tuple(notes))
+        return cls(basis, Z, float(mass_ratio), spec, atoms, given, tuple(notes))
 
-    # ----------------------------------------------------------------- properties
+    def in_potential(self, potential: Potential) -> Orbital:
+        """Return the same state with radial functions solved numerically in ``potential``."""
+        from orbviz.states.numerical import solve_radial
+
+        solutions = {(n, l): solve_radial(potential, n, l) for n, l in self.shells}
+        note = f"radial functions solved numerically in {potential.describe()}"
+        return replace(self, potential=potential, solutions=solutions, notes=(*self.notes, note))
+
+    # ----------------------------------------------------------------- what it is
     @property
     def length_charge(self) -> float:
         """Charge that sets the length scale: Z times the mass ratio (a_mu = a0 / mass_ratio)."""
@@ -248,12 +254,27 @@ class Orbital:
         return sorted({(n, l) for (n, l, _), _ in self.basis})
 
     @property
+    def centres(self) -> tuple[Centre, ...]:
+        """One centre, at the origin."""
+        return (Centre(0.0, 1.0, self),)
+
+    @property
     def eigenstate(self) -> Atom | None:
         """The single state this orbital is (form and m as written), or None for a superposition."""
         distinct = {(a.n, a.l, a.m, a.form) for a in self.atoms}
         if len(distinct) != 1:
             return None
         return self.atoms[0]
+
+    @property
+    def kind(self) -> str:
+        """In words: eigenstate, superposition, screened orbital or numerical solution."""
+        what = "eigenstate" if self.eigenstate is not None else "superposition"
+        if self.element:
+            return f"screened {what} of {self.element}"
+        if self.potential is not None:
+            return f"{what} in {self.potential.describe()}"
+        return what
 
     @property
     def label(self) -> str:
@@ -282,9 +303,10 @@ class Orbital:
     ) -> dict[tuple[int, int], np.ndarray]:
         """Per shell (n, l): sum_m b_m S_lm at the points (solid harmonics, r^l included)."""
         out: dict[tuple[int, int], np.ndarray] = {}
+        real = self.is_real
         for (n, l, m), c in self.basis:
             part = solid_harmonic_real(l, m, x, y, z)
-            term = part * (c if not self.is_real else c.real)
+            term = part * (c.real if real else c)
             out[(n, l)] = out[(n, l)] + term if (n, l) in out else term
         return out
 
@@ -310,40 +332,25 @@ class Orbital:
         work = np.dtype(dtype) if dtype is not None else np.result_type(*arrays, np.float32)
         x, y, z = (a.astype(work, copy=False) for a in arrays)
         r = np.sqrt(x * x + y * y + z * z)
-        total = None
+        total: np.ndarray | None = None
         for (n, l), angular in self.shell_angular(x, y, z).items():
-            if self.potential is not None:  # R / r^l from the numerical solution
-                with np.errstate(divide="ignore", invalid="ignore"):
-                    radial = (self.radial(n, l, r) / np.where(r > 0, r, 1.0) ** l).astype(work)
-            else:
-                radial = radial_function_reduced(n, l, r, Z=self.length_charge, dtype=work)
-            term = radial * angular
+            term = self.reduced_radial(n, l, r, dtype=work) * angular
             total = term if total is None else total + term
+        assert total is not None  # an orbital has at least one term
         return total
+
+    def reduced_radial(self, n: int, l: int, r: np.ndarray, *, dtype: npt.DTypeLike) -> np.ndarray:
+        """R_nl(r) / r^l, the factor of a solid harmonic r^l S_lm (finite at the origin)."""
+        if self.potential is None:
+            return radial_function_reduced(n, l, r, Z=self.length_charge, dtype=dtype)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            values = self.radial(n, l, r) / np.where(r > 0, r, 1.0) ** l
+        return values.astype(dtype, copy=False)
 
     def density(self, x: npt.ArrayLike, y: npt.ArrayLike, z: npt.ArrayLike) -> np.ndarray:
         """Probability density |psi|^2 (bohr^-3) at Cartesian points."""
         value = self.psi(x, y, z)
         return value * value if self.is_real else (value.real**2 + value.imag**2)
-
-    def radial_distribution(self, r: npt.ArrayLike) -> np.ndarray:
-        """Radial probability density r^2 times the integral of |psi|^2 over directions (1/bohr).
-
-        The real angular basis is orthonormal, so this is r^2 sum_(l,m) |sum_n b_nlm R_nl(r)|^2.
-        """
-        r = np.asarray(r, dtype=np.float64)
-        groups: dict[tuple[int, int], np.ndarray] = {}
-        for (n, l, m), c in self.basis:
-            groups[(l, m)] = groups.get((l, m), 0) + c * self.radial(n, l, r)
-        return r * r * sum(np.abs(g) ** 2 for g in groups.values())
-
-    def in_potential(self, potential) -> Orbital:
-        """Return the same state with radial functions solved numerically in ``potential``."""
-        from orbviz.states.numerical import solve_radial
-
-        solutions = {(n, l): solve_radial(potential, n, l) for n, l in self.shells}
-        note = f"radial functions solved numerically in {potential.describe()}"
-        return replace(self, potential=potential, solutions=solutions, notes=(*self.notes, note))
 
     def radial(self, n: int, l: int, r: npt.ArrayLike) -> np.ndarray:
         """R_nl(r): closed form at this orbital's charge and mass ratio, or the numerical one."""
@@ -351,6 +358,18 @@ class Orbital:
             return self.solutions[(n, l)].radial(np.asarray(r, dtype=np.float64))
         return radial_function(n, l, r, Z=self.length_charge)
 
+    def radial_distribution(self, r: npt.ArrayLike) -> np.ndarray:
+        """Radial probability density r^2 times the integral of |psi|^2 over directions (1/bohr).
+
+        The real angular basis is orthonormal, so this is r^2 sum_(l,m) |sum_n b_nlm R_nl(r)|^2.
+        """
+        r = np.asarray(r, dtype=np.float64)
+        groups: dict[tuple[int, int], Any] = {}
+        for (n, l, m), c in self.basis:
+            groups[(l, m)] = groups.get((l, m), 0) + c * self.radial(n, l, r)
+        return r * r * sum(np.abs(g) ** 2 for g in groups.values())
+
+    # ----------------------------------------------------------------- extent
     def radial_extent(self, n: int, l: int, tail: float = 1e-13) -> float:
         """Return a radius (bohr) beyond which less than ``tail`` of the shell's probability is."""
         if self.potential is None:
@@ -361,6 +380,20 @@ class Orbital:
         beyond = np.flatnonzero(outside < tail)
         return float(s.r[beyond[0]]) if beyond.size else float(s.r[-1])
 
+    def extent(self, tail: float = 1e-13) -> float:
+        """Radius beyond which less than ``tail`` of every shell's probability lies (bohr)."""
+        return max(self.radial_extent(n, l, tail) for n, l in self.shells)
+
+    def radial_quantile(self, q: float) -> float:
+        """Radius (bohr) inside which the fraction ``q`` of the probability lies."""
+        r_max = self.extent()
+        u = np.linspace(0.0, 1.0, 20001)
+        r = r_max * u * u
+        p = self.radial_distribution(r) * 2.0 * r_max * u
+        cumulative = np.concatenate([[0.0], np.cumsum(0.5 * (p[1:] + p[:-1]) * np.diff(u))])
+        return float(np.interp(q * cumulative[-1], cumulative, r))
+
+    # ----------------------------------------------------------------- physics
     def shell_energy(self, n: int, l: int) -> float:
         """Energy of the (n, l) shell in hartree."""
         if self.potential is not None:
@@ -376,3 +409,27 @@ class Orbital:
         r, v = s.r[big], s.R[big]
         i = np.flatnonzero(np.sign(v[1:]) != np.sign(v[:-1]))
         return r[i] - v[i] * (r[i + 1] - r[i]) / (v[i + 1] - v[i])  # linear root
+
+    def properties(self) -> Properties:
+        """Energy, degeneracy, nodes and radii (see :mod:`orbviz.states.properties`)."""
+        from orbviz.states.properties import orbital_properties
+
+        return orbital_properties(self)
+
+    def nodal_surfaces(self) -> NodalSurfaces:
+        """Radial node spheres (one shell) and an eigenstate's angular nodal planes and cones."""
+        from orbviz.states.properties import orbital_nodes
+
+        return orbital_nodes(self)
+
+    def evolve(self, t: float) -> Orbital:
+        """Return the state at time t (atomic units): each component turned by exp(-i E t)."""
+        from orbviz.states.dynamics import evolve
+
+        return evolve(self, t)
+
+    def beat(self) -> Beat:
+        """Return the period of the moving density (:func:`orbviz.states.dynamics.beat_period`)."""
+        from orbviz.states.dynamics import beat_period
+
+        return beat_period(self)

@@ -17,14 +17,24 @@ import numpy.typing as npt
 from orbviz.errors import ParameterError
 
 __all__ = [
+    "YUKAWA_RANGE",
+    "HARMONIC_RANGE",
     "Coulomb",
     "Harmonic",
     "Potential",
     "Tabulated",
     "UserPotential",
     "Yukawa",
+    "check_potential_text",
     "parse_potential",
 ]
+
+# Supported parameter ranges (docs/limits.md): the solver's log grid reaches 1e-10..4e5 bohr, so
+# a screening length or a well width must fall well inside it.
+YUKAWA_RANGE = (0.05, 1e4)  # bohr
+HARMONIC_RANGE = (1e-3, 1e3)  # hartree
+_TABLE_V_MAX = 1e6  # |V| min(r, 1) in hartree (bohr): a Coulomb-like core up to charge 1e6
+_TABLE_BYTES = 50_000_000
 
 
 class Potential:
@@ -61,8 +71,11 @@ class Yukawa(Potential):
     length: float = 10.0
 
     def __post_init__(self) -> None:
-        if not (math.isfinite(self.length) and self.length > 0):
-            raise ParameterError(f"screening length must be > 0 bohr, got {self.length}")
+        low, high = YUKAWA_RANGE
+        if not (math.isfinite(self.length) and low <= self.length <= high):
+            raise ParameterError(
+                f"screening length must be from {low:g} to {high:g} bohr, got {self.length:g}"
+            )
 
     def __call__(self, r):  # noqa: D102
         r = np.asarray(r, dtype=np.float64)
@@ -124,6 +137,11 @@ class Tabulated(Potential):
             raise ParameterError(f"{name}: need two columns with at least 4 rows")
         if not (np.all(np.isfinite(r)) and np.all(np.isfinite(v)) and np.all(np.diff(r) > 0)):
             raise ParameterError(f"{name}: radii must be finite and increasing, values finite")
+        if r[0] <= 0 or r[-1] > 1e6 or np.max(np.abs(v) * np.minimum(r, 1.0)) > _TABLE_V_MAX:
+            raise ParameterError(
+                f"{name}: need radii in (0, 1e6] bohr and |V| min(r, 1) <= {_TABLE_V_MAX:g} "
+                "hartree bohr (the solver's supported range)"
+            )
         self.r, self.v, self.name = r, v, name
         self.limit = float(v[-1])
         self._spline = CubicSpline(r, v)
@@ -133,11 +151,15 @@ class Tabulated(Potential):
         """Read whitespace- or comma-separated columns r, V (lines starting with # skipped)."""
         path = Path(path)
         try:
-            data = np.loadtxt(
-                path, delimiter=None if "," not in path.read_text() else ",", comments="#", ndmin=2
-            )
-        except (OSError, ValueError) as error:
-            raise ParameterError(f"cannot read potential table {str(path)!r}: {error}") from None
+            if path.stat().st_size > _TABLE_BYTES:
+                raise ValueError(f"larger than {_TABLE_BYTES // 10**6} MB")
+            lines = path.read_text(encoding="utf-8").splitlines()
+            rows = [line.split("#", 1)[0] for line in lines]
+            comma = any("," in row for row in rows)  # sniff data rows only, not comments
+            data = np.loadtxt(rows, delimiter="," if comma else None, ndmin=2)
+        except (OSError, ValueError, UnicodeDecodeError) as error:
+            reason = error.strerror if isinstance(error, OSError) and error.strerror else error
+            raise ParameterError(f"cannot read potential table {path.name!r}: {reason}") from None
         if data.shape[1] != 2:
             raise ParameterError(
                 f"{path.name}: need exactly two columns (r, V), got {data.shape[1]}"
@@ -152,27 +174,42 @@ class Tabulated(Potential):
         return f"table {self.name} ({self.r.size} points, {self.r[0]:g}-{self.r[-1]:g} bohr)"
 
 
+def check_potential_text(raw: object) -> str:
+    """Check the form of a potential's text without reading any table (a converter)."""
+    if not isinstance(raw, str):
+        raise ValueError(f"expected text such as yukawa:10, got {raw!r}")
+    kind, _, arg = raw.strip().partition(":")
+    kind = kind.lower()
+    if kind == "table" and arg.strip():
+        return raw.strip()
+    if kind == "coulomb" and not arg:
+        return raw.strip()
+    if kind in ("yukawa", "harmonic"):
+        low, high = YUKAWA_RANGE if kind == "yukawa" else HARMONIC_RANGE
+        try:
+            value = float(arg)
+        except ValueError:
+            value = math.nan
+        if math.isfinite(value) and low <= value <= high:
+            return raw.strip()
+        unit = "bohr" if kind == "yukawa" else "hartree"
+        raise ValueError(f"{kind} takes a number from {low:g} to {high:g} {unit}, got {raw!r}")
+    raise ValueError(f"expected coulomb, yukawa:LENGTH, harmonic:OMEGA or table:FILE, got {raw!r}")
+
+
 def parse_potential(text: str, *, Z: float = 1.0) -> Potential:
     """Read ``coulomb``, ``yukawa:LENGTH``, ``harmonic:OMEGA`` or ``table:FILE`` (bohr, hartree).
 
     ``Z`` is the charge of the Coulomb and Yukawa potentials.
     """
-    kind, _, arg = text.strip().partition(":")
+    try:
+        text = check_potential_text(text)
+    except ValueError as error:
+        raise ParameterError(f"potential: {error}") from None
+    kind, _, arg = text.partition(":")
     kind = kind.lower()
     if kind == "table":
         return Tabulated.from_file(arg)
-    if kind == "coulomb" and not arg:
+    if kind == "coulomb":
         return Coulomb(Z)
-    if kind in ("yukawa", "harmonic"):
-        try:
-            value = float(arg)
-        except ValueError:
-            raise ParameterError(
-                f"potential {text!r}: {kind} needs a number, e.g. {kind}:10"
-            ) from None
-        if not (math.isfinite(value) and value > 0):
-            raise ParameterError(f"potential {text!r}: the {kind} parameter must be > 0")
-        return Yukawa(Z, value) if kind == "yukawa" else Harmonic(value)
-    raise ParameterError(
-        f"unknown potential {text!r}; use coulomb, yukawa:LENGTH, harmonic:OMEGA or table:FILE"
-    )
+    return Yukawa(Z, float(arg)) if kind == "yukawa" else Harmonic(float(arg))

@@ -19,6 +19,7 @@ __all__ = [
     "energy_hartree",
     "expectation_r",
     "laguerre",
+    "log_norm",
     "most_probable_radius",
     "radial_extent",
     "radial_function",
@@ -98,7 +99,7 @@ def laguerre(k: int, alpha: float, x: npt.ArrayLike) -> np.ndarray:
     return cur
 
 
-def _log_norm(n: int, l: int, Z: float) -> float:
+def log_norm(n: int, l: int, Z: float) -> float:
     """Log of the normalisation constant of R_nl, in log space so high n cannot overflow."""
     return 0.5 * (
         3.0 * math.log(2.0 * Z / n)
@@ -141,7 +142,7 @@ def radial_function(n: int, l: int, r: npt.ArrayLike, *, Z: float = 1.0) -> np.n
     rho = 2.0 * Z * r / n
     with np.errstate(divide="ignore"):
         log_pow = l * np.log(rho) if l > 0 else np.zeros_like(rho)
-    envelope = np.exp(_log_norm(n, l, Z) + log_pow - 0.5 * rho)
+    envelope = np.exp(log_norm(n, l, Z) + log_pow - 0.5 * rho)
     return envelope * laguerre(n - l - 1, 2 * l + 1, rho)
 
 
@@ -167,7 +168,7 @@ def radial_function_reduced(
         Values of R_nl(r) / r^l; finite at the origin.
     """
     r = np.asarray(r, dtype=dtype)
-    scale = math.exp(_log_norm(n, l, Z) + l * math.log(2.0 * Z / n))
+    scale = math.exp(log_norm(n, l, Z) + l * math.log(2.0 * Z / n))
     rho = r * np.asarray(2.0 * Z / n, dtype=dtype)
     out = laguerre(n - l - 1, 2 * l + 1, rho)
     out *= np.exp(-0.5 * rho) * np.asarray(scale, dtype=dtype)

@@ -9,7 +9,11 @@ Grammar (whitespace is free, labels are case-insensitive)::
                                                        e.g. 2pz  3dx2-y2  4,2,-1  2sp3[1]
 
 ``N label`` is a real orbital; ``N,L,M`` is the complex eigenstate of Lz (the real combination
-when the caller asks for real forms).
+when the caller asks for real forms). Two forms wrap a spec:
+
+    element := SYMBOL ":" spec               e.g. Na:3s  Fe:3dxy  C:2p
+    bond    := "bond(" label "," label ",R=" number "," ("+" | "-") ")"
+                                             e.g. bond(1s,1s,R=2.0,+)
 """
 
 from __future__ import annotations
@@ -18,10 +22,19 @@ import cmath
 import re
 from dataclasses import dataclass
 
+from orbviz._defaults import LIMITS
 from orbviz.errors import SpecError
 from orbviz.states.angular import LABELS
 
-__all__ = ["Atom", "parse_spec"]
+__all__ = [
+    "Atom",
+    "BondSpec",
+    "is_bond",
+    "parse_bond",
+    "parse_spec",
+    "shorthand_shells",
+    "split_element",
+]
 
 _NUM = r"(?:\d+(?:\.\d*)?|\.\d+)(?:e[+-]?\d+)?"
 _LABEL_ALT = "|".join(re.escape(k) for k in sorted(LABELS, key=len, reverse=True))
@@ -34,6 +47,13 @@ _STATE_HYBRID = re.compile(
 )
 _COEF = re.compile(rf"(?:\((?P<paren>[^()]*)\)|(?P<num>(?:{_NUM}|inf(?:inity)?|nan)j?))\s*\*", re.I)
 _SIGN = re.compile(r"[+-]")
+_ELEMENT_PREFIX = re.compile(r"\s*([A-Za-z]{1,2})\s*:(.*)$", re.S)
+_BARE_SHELL = re.compile(r"(?<![\d,.])(\d+)([pdfPDF])(?![a-zA-Z0-9(])")
+_M0_LABEL = {"p": "z", "d": "z2", "f": "z3"}
+_BOND = re.compile(
+    r"\s*bond\s*\(\s*([^,()]+?)\s*,\s*([^,()]+?)\s*,\s*R\s*=\s*([0-9.eE+-]+)\s*,\s*([+-])\s*\)\s*$",
+    re.I,
+)
 
 
 @dataclass(frozen=True)
@@ -55,6 +75,56 @@ class Atom:
     m: int
     form: str
     coefficient: complex
+
+
+@dataclass(frozen=True)
+class BondSpec:
+    """The parts of ``bond(A,B,R=2.0,+)``: two labels, the distance (bohr) and the sign."""
+
+    first: str
+    second: str
+    distance: float
+    sign: float
+
+
+def is_bond(spec: object) -> bool:
+    """Tell whether spec text names a two-centre combination (starts with ``bond``)."""
+    return isinstance(spec, str) and spec.lstrip().lower().startswith("bond")
+
+
+def parse_bond(spec: str, /) -> BondSpec:
+    """Read ``bond(A,B,R=2.0,+)``; the distance is checked for range by the caller."""
+    match = _BOND.fullmatch(spec) if isinstance(spec, str) else None
+    if match is None:
+        raise SpecError(f"bond needs the form bond(1s,1s,R=2.0,+), got {spec!r}")
+    try:
+        distance = float(match.group(3))
+    except ValueError:
+        raise SpecError(f"bond distance must be a number of bohr, got {match.group(3)!r}") from None
+    sign = 1.0 if match.group(4) == "+" else -1.0
+    return BondSpec(match.group(1), match.group(2), distance, sign)
+
+
+def split_element(spec: str, /) -> tuple[str | None, str]:
+    """Split ``Na:3s`` into ("Na", "3s"); (None, spec) without a prefix."""
+    match = _ELEMENT_PREFIX.match(spec) if isinstance(spec, str) else None
+    if match is None:
+        return None, spec
+    return match.group(1), match.group(2)
+
+
+def shorthand_shells(text: str, /) -> tuple[str, list[str]]:
+    """Read a bare shell (``2p``, ``3d``) as its m = 0 member; return the text and what changed.
+
+    Used after an element prefix, where ``C:2p`` is common shorthand.
+    """
+    found: list[str] = []
+
+    def expand(match: re.Match[str]) -> str:
+        found.append(match.group(0))
+        return match.group(0) + _M0_LABEL[match.group(2).lower()]
+
+    return _BARE_SHELL.sub(expand, text), found
 
 
 def _integer(text: str, name: str, spec: str) -> int:
@@ -99,6 +169,8 @@ def parse_spec(spec: str, /) -> list[Atom]:
     if not isinstance(spec, str):
         raise SpecError(f"an orbital spec must be text, got {type(spec).__name__}")
     text = spec.strip()
+    if len(text) > LIMITS.spec_chars:
+        raise SpecError(f"spec text is {len(text)} characters long; at most {LIMITS.spec_chars}")
     if not text:
         raise SpecError("empty orbital spec; try e.g. 2pz, 3dx2-y2, 4,2,-1 or 0.6*2s+0.8*2pz")
     pos, atoms = 0, []

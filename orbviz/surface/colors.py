@@ -17,33 +17,66 @@ import re
 
 import numpy as np
 
-from orbviz.errors import ParameterError
+__all__ = [
+    "DEFAULT_PAIR",
+    "SET_PALETTE",
+    "RGBA",
+    "ColorPair",
+    "color_pair",
+    "phase_colors",
+    "sign_colors",
+]
 
-__all__ = ["DEFAULT_PAIR", "parse_colors", "phase_colors", "sign_colors"]
-
-DEFAULT_PAIR: tuple[tuple[int, int, int, int], tuple[int, int, int, int]] = (
+RGBA = tuple[int, int, int, int]
+ColorPair = tuple[RGBA, RGBA]
+DEFAULT_PAIR: ColorPair = (
     (0, 114, 178, 255),
     (213, 94, 0, 255),
+)
+SET_PALETTE: tuple[tuple[int, int, int], ...] = (  # Okabe & Ito (2008): one colour per member
+    (0, 114, 178),
+    (213, 94, 0),
+    (0, 158, 115),
+    (204, 121, 167),
+    (230, 159, 0),
+    (86, 180, 233),
 )
 _HEX = re.compile(r"#?([0-9a-fA-F]{6})")
 
 
-def parse_colors(text: str) -> tuple[tuple[int, int, int, int], tuple[int, int, int, int]]:
-    """Read ``"#RRGGBB,#RRGGBB"`` (positive, negative) into two RGBA tuples."""
-    parts = [p.strip() for p in text.split(",")]
-    if len(parts) != 2 or not all(_HEX.fullmatch(p) for p in parts):
-        raise ParameterError(
-            "--colors takes two hex colours 'POSITIVE,NEGATIVE' like '#0072B2,#D55E00', "
-            f"got {text!r}"
-        )
-    out = []
-    for p in parts:
-        h = _HEX.fullmatch(p).group(1)
-        out.append((int(h[0:2], 16), int(h[2:4], 16), int(h[4:6], 16), 255))
-    return out[0], out[1]
+def color_pair(raw: object) -> ColorPair:
+    """Read ``"#RRGGBB,#RRGGBB"`` (positive, negative), or a pair of RGB(A) tuples, into RGBA.
+
+    A converter of the options model: raises ``ValueError`` with the rule on a bad value.
+    """
+    rule = "expected two hex colours 'POSITIVE,NEGATIVE' like '#0072B2,#D55E00'"
+    if isinstance(raw, str):
+        parts = [p.strip() for p in raw.split(",")]
+        if len(parts) != 2 or not all(_HEX.fullmatch(p) for p in parts):
+            raise ValueError(f"{rule}, got {raw!r}")
+        pair = []
+        for p in parts:
+            match = _HEX.fullmatch(p)
+            assert match is not None
+            h = match.group(1)
+            pair.append((int(h[0:2], 16), int(h[2:4], 16), int(h[4:6], 16), 255))
+        return pair[0], pair[1]
+    if isinstance(raw, (tuple, list)) and len(raw) == 2:
+        out = []
+        for colour in raw:
+            values = list(colour) if isinstance(colour, (tuple, list)) else []
+            if len(values) == 3:
+                values.append(255)
+            if len(values) != 4 or not all(
+                isinstance(v, int) and not isinstance(v, bool) and 0 <= v <= 255 for v in values
+            ):
+                raise ValueError(f"{rule}, or two (R, G, B[, A]) tuples of 0-255, got {raw!r}")
+            out.append((values[0], values[1], values[2], values[3]))
+        return out[0], out[1]
+    raise ValueError(f"{rule}, got {raw!r}")
 
 
-def sign_colors(sign: np.ndarray, pair=DEFAULT_PAIR) -> np.ndarray:
+def sign_colors(sign: np.ndarray, pair: ColorPair = DEFAULT_PAIR) -> np.ndarray:
     """(V, 4) uint8 RGBA: ``pair[0]`` where sign >= 0, ``pair[1]`` elsewhere."""
     rgba = np.empty((len(sign), 4), dtype=np.uint8)
     rgba[:] = pair[0]

@@ -16,17 +16,13 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from orbviz.errors import OrbvizError
+from orbviz.errors import NoSurfaceError
 from orbviz.levels.grid import Grid
-from orbviz.surface.colors import phase_colors, sign_colors
+from orbviz.surface.colors import ColorPair, phase_colors, sign_colors
 
-__all__ = ["Body", "NoSurfaceError", "contour", "finish_body"]
+__all__ = ["Body", "contour", "finish_body"]
 
 _SHEET_SIGN = {"positive": 1.0, "negative": -1.0}  # the sheet each body of a real state is on
-
-
-class NoSurfaceError(OrbvizError, ValueError):
-    """The level lies outside the sampled field: there is nothing to contour."""
 
 
 @dataclass
@@ -47,6 +43,8 @@ class Body:
         Sign of psi (+1 or -1) for a real state, arg psi in radians for a complex one.
     colors : (V, 4) ndarray of uint8
         RGBA per vertex.
+    unit : {"bohr", "mm"}, default: "bohr"
+        Length unit of the vertices (mm for printable models).
     """
 
     name: str
@@ -56,20 +54,13 @@ class Body:
     phase: np.ndarray = field(default_factory=lambda: np.empty(0, np.float32))
     colors: np.ndarray = field(default_factory=lambda: np.empty((0, 4), np.uint8))
 
-    def to_trimesh(self):
-        """Return the body as a ``trimesh.Trimesh`` with vertex normals and colours."""
-        import trimesh
+    unit: str = "bohr"
 
-        return trimesh.Trimesh(
-            vertices=self.vertices,
-            faces=self.faces,
-            vertex_normals=self.normals,
-            vertex_colors=self.colors,
-            process=False,
-        )
+    def __repr__(self) -> str:
+        return f"Body({self.name!r}, {len(self.vertices)} vertices, {len(self.faces)} faces)"
 
 
-def _flying_edges(grid: Grid, values: list[float]):
+def _flying_edges(grid: Grid, values: list[float]) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """VTK flying edges on the grid's samples (no copy: they are x-fastest already)."""
     from vtkmodules.util.numpy_support import numpy_to_vtk, vtk_to_numpy
     from vtkmodules.vtkCommonCore import vtkSMPTools
@@ -159,7 +150,7 @@ def contour(grid: Grid, level: float) -> list[Body]:
     return bodies
 
 
-def finish_body(body: Body, grid: Grid, *, colors: tuple[tuple[int, ...], ...]) -> Body:
+def finish_body(body: Body, grid: Grid, *, colors: ColorPair) -> Body:
     """Fill normals (field gradient, outward), phase and colours from the exact psi.
 
     Inside a body |f| >= sqrt(level), so the outward normal is -sign(f) grad f / |grad f|: on
@@ -177,7 +168,7 @@ def finish_body(body: Body, grid: Grid, *, colors: tuple[tuple[int, ...], ...]) 
         rgba = sign_colors(phase, colors)
     else:
         outward = -np.sign(value)[:, None] * grad / length
-        psi = grid.field.orbital.psi(*body.vertices.T, dtype=np.float64)
+        psi = grid.field.state.psi(*body.vertices.T, dtype=np.float64)
         phase = np.angle(psi).astype(np.float32)
         rgba = phase_colors(phase)
     return Body(body.name, body.vertices, body.faces, outward.astype(np.float32), phase, rgba)

@@ -1,29 +1,32 @@
-"""From an orbital to finished, closed, phase-coloured bodies and a report: the mesh pipeline."""
+"""From a state to finished, closed, phase-coloured bodies and a report: the mesh pipeline."""
 
 from __future__ import annotations
 
 import math
+import os
 from dataclasses import dataclass, field
+from pathlib import Path
 from typing import Any
 
-import numpy as np
-
 from orbviz._defaults import DEFAULTS
+from orbviz._options import checked
 from orbviz.errors import ParameterError
 from orbviz.levels.fields import field_of
-from orbviz.levels.grid import Grid, box_half_width, check_grid_points, sample
-from orbviz.levels.isovalue import Isovalue, check_isovalue, enclosing_isovalue
-from orbviz.states.orbital import Orbital
+from orbviz.levels.grid import Grid, box_half_width, sample
+from orbviz.levels.isovalue import Isovalue, check_fraction, check_isovalue, enclosing_isovalue
+from orbviz.states.state import State
 from orbviz.surface.checks import mesh_facts
-from orbviz.surface.colors import DEFAULT_PAIR
 from orbviz.surface.contour import Body, contour, finish_body
+from orbviz.surface.convert import pyvista_blocks, trimesh_scene
+from orbviz.surface.options import MeshOptions
+from orbviz.surface.tidy import decimate, smooth
 
-__all__ = ["OrbitalMesh", "build_mesh", "decimate", "smooth"]
+__all__ = ["OrbitalMesh", "build_mesh"]
 
 
 @dataclass
 class OrbitalMesh:
-    """The bodies of one orbital's isosurface, with what made them.
+    """The bodies of one state's isosurface, with what made them.
 
     Attributes
     ----------
@@ -42,23 +45,45 @@ class OrbitalMesh:
     grid: Grid
     notes: list[str] = field(default_factory=list)
 
-    def to_trimesh(self) -> dict[str, Any]:
-        """Each body as a ``trimesh.Trimesh`` (vertex normals and colours), keyed by name."""
-        return {body.name: body.to_trimesh() for body in self.bodies}
+    def __repr__(self) -> str:
+        bodies = ", ".join(f"{b.name} ({len(b.faces)} faces)" for b in self.bodies)
+        return (
+            f"OrbitalMesh({self.grid.field.state.label!r}, {100 * self.isovalue.fraction:g}% at "
+            f"{self.isovalue.level:.4g} bohr^-3, grid {self.grid.points}: {bodies})"
+        )
 
-    def to_pyvista(self) -> dict[str, Any]:
-        """Each body as a ``pyvista.PolyData`` with ``Normals``, ``RGBA`` and ``phase`` arrays."""
-        import pyvista
+    @property
+    def state(self) -> State:
+        """The state the surface belongs to."""
+        return self.grid.field.state
 
-        out = {}
-        for body in self.bodies:
-            cells = np.hstack([np.full((len(body.faces), 1), 3), body.faces]).ravel()
-            poly = pyvista.PolyData(body.vertices, cells)
-            poly.point_data["Normals"] = body.normals
-            poly.point_data["RGBA"] = body.colors
-            poly.point_data["phase"] = body.phase
-            out[body.name] = poly
-        return out
+    def to_trimesh(self) -> Any:
+        """One ``trimesh.Scene``: each body a named geometry with its phase material (bohr)."""
+        return trimesh_scene(self.bodies)
+
+    def to_pyvista(self) -> Any:
+        """One ``pyvista.MultiBlock``: a PolyData per body with Normals, RGBA and phase (bohr)."""
+        return pyvista_blocks(self.bodies)
+
+    def export(self, path: str | os.PathLike[str], *, units: str = "bohr") -> list[Path]:
+        """Write the bodies in the format the suffix names (.stl .obj .glb .gltf .ply .3mf).
+
+        Parameters
+        ----------
+        path : str or path-like
+            Output file; companions (``.mtl``, ``.bin``) go beside it. Every file is checked
+            before writing and the set is replaced as a whole.
+        units : {"bohr", "angstrom", "nm", "pm"}, default: "bohr"
+            Length unit of the written coordinates.
+
+        Returns
+        -------
+        list of Path
+            Every file written.
+        """
+        from orbviz.export import write_bodies
+
+        return write_bodies(self.bodies, path, units=units)
 
     def body_facts(self) -> list[dict[str, Any]]:
         """Per body: name, vertex and face counts, pieces, volume, area, watertightness."""
@@ -85,11 +110,11 @@ class OrbitalMesh:
         This adds the level's finer check and sums the grid outside the window, so it costs
         about as much again as the sampling did.
         """
-        self.isovalue = check_isovalue(self.grid.field.orbital, self.isovalue)
+        self.isovalue = check_isovalue(self.grid.field.state, self.isovalue)
         above, total = self.grid.probability_sums(self.isovalue.level)
         bodies = self.body_facts()
         return {
-            "spec": self.grid.field.orbital.spec,
+            "spec": self.grid.field.state.spec,
             "field": self.grid.field.kind,
             "fraction": self.isovalue.fraction,
             "isovalue": self.isovalue.level,
@@ -107,83 +132,26 @@ class OrbitalMesh:
         }
 
 
-def smooth(body: Body, *, iterations: int = 10) -> Body:
-    """Taubin smoothing (no shrinkage) of a body's vertices; normals and colours are redone later.
-
-    Uses ``trimesh.smoothing.filter_taubin`` (Taubin, SIGGRAPH 1995).
-    """
-    import trimesh
-    from trimesh.smoothing import filter_taubin
-
-    mesh = trimesh.Trimesh(body.vertices, body.faces, process=False)
-    filter_taubin(mesh, iterations=iterations)
-    return Body(body.name, np.asarray(mesh.vertices, dtype=np.float64), body.faces)
-
-
-def decimate(body: Body, target_faces: int) -> Body:
-    """Reduce a body to about ``target_faces`` triangles by VTK quadric decimation.
-
-    The result keeps its volume and stays closed. Normals and colours are evaluated again on the
-    new vertices afterwards.
-    """
-    if target_faces >= len(body.faces):
-        return body
-    from vtkmodules.util.numpy_support import numpy_to_vtk, numpy_to_vtkIdTypeArray, vtk_to_numpy
-    from vtkmodules.vtkCommonCore import vtkPoints
-    from vtkmodules.vtkCommonDataModel import vtkCellArray, vtkPolyData
-    from vtkmodules.vtkFiltersCore import vtkQuadricDecimation
-
-    points = vtkPoints()
-    points.SetData(numpy_to_vtk(body.vertices, deep=True))
-    cells = vtkCellArray()
-    offsets = np.arange(0, 3 * len(body.faces) + 1, 3, dtype=np.int64)
-    cells.SetData(
-        numpy_to_vtkIdTypeArray(offsets, deep=True),
-        numpy_to_vtkIdTypeArray(body.faces.astype(np.int64).ravel(), deep=True),
-    )
-    poly = vtkPolyData()
-    poly.SetPoints(points)
-    poly.SetPolys(cells)
-    reducer = vtkQuadricDecimation()
-    reducer.SetInputData(poly)
-    reducer.SetTargetReduction(1.0 - target_faces / len(body.faces))
-    reducer.VolumePreservationOn()
-    reducer.Update()
-    out = reducer.GetOutput()
-    vertices = vtk_to_numpy(out.GetPoints().GetData()).astype(np.float64)
-    faces = vtk_to_numpy(out.GetPolys().GetConnectivityArray()).astype(np.int64).reshape(-1, 3)
-    return Body(body.name, vertices, faces)
-
-
 def build_mesh(
-    orbital: Orbital,
+    state: State,
     /,
+    options: MeshOptions | None = None,
     *,
     fraction: float = DEFAULTS.fraction,
-    grid: int = DEFAULTS.grid,
-    smoothing: int = 0,
-    faces: int | None = None,
-    colors=DEFAULT_PAIR,
     half_width: float | None = None,
     level: Isovalue | None = None,
     window: bool = True,
 ) -> OrbitalMesh:
-    """Isosurface bodies of an orbital enclosing ``fraction`` of its probability.
+    """Isosurface bodies of a state enclosing ``fraction`` of its probability.
 
     Parameters
     ----------
-    orbital : Orbital
-        The state.
+    state : State
+        Any kind of state.
+    options : MeshOptions, optional
+        Grid, face budget, smoothing and colours (checked here by their rules).
     fraction : float, default: 0.9
         Probability inside the surface.
-    grid : int, default: 128
-        Samples per axis.
-    smoothing : int, default: 0
-        Taubin smoothing iterations (0: none).
-    faces : int, optional
-        Face budget over all bodies; bodies are decimated in proportion to their size.
-    colors : pair of RGBA tuples
-        Positive and negative colours of a real state.
     half_width : float, optional
         Fix the box (bohr) instead of sizing it from the probability; it must hold the surface.
     level : Isovalue, optional
@@ -198,27 +166,24 @@ def build_mesh(
     OrbitalMesh
         Closed bodies wound outward, with gradient normals and phase colours.
     """
-    grid = check_grid_points(grid)
-    if faces is not None and (isinstance(faces, bool) or int(faces) < 100):
-        raise ParameterError(f"--faces must be an integer of at least 100, got {faces!r}")
-    if smoothing < 0:
-        raise ParameterError(f"smoothing iterations must be >= 0, got {smoothing}")
-    iso = enclosing_isovalue(orbital, fraction=fraction, check=False) if level is None else level
-    contoured = field_of(orbital)
-    width = box_half_width(orbital, iso, grid) if half_width is None else float(half_width)
+    opts = checked(options or MeshOptions())
+    fraction = check_fraction(fraction)
+    iso = enclosing_isovalue(state, fraction=fraction, check=False) if level is None else level
+    contoured = field_of(state)
+    width = box_half_width(state, iso, opts.grid) if half_width is None else float(half_width)
     if not (math.isfinite(width) and width > iso.max_radius):
         raise ParameterError(
-            f"the box half-width {width:g} bohr does not hold the surface, which reaches "
+            f"extent: the box half-width {width:g} bohr does not hold the surface, which reaches "
             f"{iso.max_radius:.4g} bohr"
         )
-    samples = sample(contoured, width, grid, surface=iso if window else None)
+    samples = sample(contoured, width, opts.grid, surface=iso if window else None)
     bodies = contour(samples, iso.level)
-    if smoothing:
-        bodies = [smooth(b, iterations=smoothing) for b in bodies]
-    if faces is not None:
+    if opts.smooth:
+        bodies = [smooth(b, iterations=opts.smooth) for b in bodies]
+    if opts.faces is not None:
         total = sum(len(b.faces) for b in bodies)
-        bodies = [decimate(b, max(4, int(faces * len(b.faces) / total))) for b in bodies]
-    bodies = [finish_body(b, samples, colors=colors) for b in bodies]
+        bodies = [decimate(b, max(4, int(opts.faces * len(b.faces) / total))) for b in bodies]
+    bodies = [finish_body(b, samples, colors=opts.colors) for b in bodies]
     return OrbitalMesh(bodies, iso, samples, _grid_notes(iso, samples))
 
 

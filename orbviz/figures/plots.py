@@ -6,19 +6,20 @@ plot can be checked against closed forms without reading pixels).
 
 from __future__ import annotations
 
-import math
 import os
 from dataclasses import dataclass, field
 from pathlib import Path
+from typing import Any
 
 import numpy as np
 
 from orbviz._defaults import DEFAULTS
-from orbviz.errors import ParameterError
+from orbviz._options import checked
+from orbviz.figures.options import PlotOptions
 from orbviz.levels.isovalue import enclosing_isovalue
-from orbviz.states.orbital import Orbital
+from orbviz.states.state import State
 
-__all__ = ["RadialData", "SliceData", "radial_figure", "save_figure", "slice_figure"]
+__all__ = ["RadialData", "SliceData", "plot", "radial_figure", "save_figure", "slice_figure"]
 
 PLANES = {"xz": (0, 2), "xy": (0, 1), "yz": (1, 2)}
 _INK = "#1a1a1a"
@@ -75,39 +76,26 @@ class RadialData:
     most_probable_radius: float
 
 
-def _node_radii(orbital: Orbital) -> list[float]:
-    if len(orbital.shells) != 1:
-        return []
-    n, l = orbital.shells[0]
-    return orbital.node_radii(n, l).tolist()
-
-
 def slice_figure(
-    orbital: Orbital,
+    state: State,
     /,
+    options: PlotOptions | None = None,
     *,
-    plane: str = "xz",
     fraction: float = DEFAULTS.fraction,
-    extent: float | None = None,
     points: int = 501,
-    title: str | None = None,
-):
+) -> tuple[Any, SliceData]:
     """Density slice through the nucleus with the isovalue contour and the nodes marked.
 
     Parameters
     ----------
-    orbital : Orbital
-        The state.
-    plane : {"xz", "xy", "yz"}, default: "xz"
-        Plane through the nucleus.
+    state : State
+        Any kind of state.
+    options : PlotOptions, optional
+        Plane, extent (default: 1.15 times the surface's reach) and title.
     fraction : float, default: 0.9
         The isovalue drawn encloses this probability (in 3D).
-    extent : float, optional
-        Half-width of the square shown, bohr (default: 1.15 times the surface's reach).
     points : int, default: 501
         Samples per side.
-    title : str, optional
-        Axes title (default: the orbital's label).
 
     Returns
     -------
@@ -115,21 +103,20 @@ def slice_figure(
     """
     from matplotlib.figure import Figure
 
-    if plane not in PLANES:
-        raise ParameterError(f"--plane must be one of {', '.join(PLANES)}, got {plane!r}")
-    iso = enclosing_isovalue(orbital, fraction=fraction)
-    half = 1.15 * iso.max_radius if extent is None else float(extent)
-    if not (math.isfinite(half) and half > 0):
-        raise ParameterError(f"--extent must be a positive length in bohr, got {extent}")
+    opts = checked(options or PlotOptions())
+    plane, title = opts.plane, opts.title
+    iso = enclosing_isovalue(state, fraction=fraction)
+    half = 1.15 * iso.max_radius if opts.extent is None else opts.extent
     axis = np.linspace(-half, half, points)
     u, v = np.meshgrid(axis, axis, indexing="ij")
     coords = [np.zeros_like(u)] * 3
     i, j = PLANES[plane]
     coords[i], coords[j] = u, v
-    psi = orbital.psi(*coords, dtype=np.float64)
+    psi = state.psi(*coords, dtype=np.float64)
     dens = np.abs(psi) ** 2
-    signed = psi.real if orbital.is_real else np.abs(psi) * np.sign(psi.real)
-    data = SliceData(plane, axis, dens, signed, iso.level, _node_radii(orbital))
+    signed = psi.real if state.is_real else np.abs(psi) * np.sign(psi.real)
+    spheres = list(state.nodal_surfaces().spheres)
+    data = SliceData(plane, axis, dens, signed, iso.level, spheres)
 
     fig = Figure(figsize=(6.4, 5.6), layout="constrained")
     ax = fig.add_subplot()
@@ -144,7 +131,7 @@ def slice_figure(
     bar = fig.colorbar(image, ax=ax, shrink=0.85)
     bar.set_label(r"$\log_{10}\,|\psi|^2$  (bohr$^{-3}$)")
     ax.contour(axis, axis, dens.T, levels=[iso.level], colors="white", linewidths=1.6)
-    if orbital.is_real:
+    if state.is_real:
         ax.contour(
             axis, axis, signed.T, levels=[0.0], colors=_INK, linewidths=1.0, linestyles="dashed"
         )
@@ -155,7 +142,7 @@ def slice_figure(
     ax.set_aspect("equal")
     ax.set_title(
         title
-        or f"{orbital.label}: {plane} plane; white: {100 * fraction:g}% isovalue, dashed: nodes",
+        or f"{state.label}: {plane} plane; white: {100 * fraction:g}% isovalue, dashed: nodes",
         fontsize=10,
     )
     return fig, data
@@ -167,8 +154,13 @@ def _circle(radius: float):
     return Circle((0, 0), radius, fill=False, edgecolor=_INK, linestyle="dashed", linewidth=1.0)
 
 
-def radial_figure(orbital: Orbital, /, *, title: str | None = None):
+def radial_figure(state: State, /, options: PlotOptions | None = None) -> tuple[Any, RadialData]:
     """Radial distribution r^2 |R|^2 (summed over the angular parts) with nodes and radii marked.
+
+    Raises
+    ------
+    Unsupported
+        For a state with no single centre (a bond).
 
     Returns
     -------
@@ -176,15 +168,16 @@ def radial_figure(orbital: Orbital, /, *, title: str | None = None):
     """
     from matplotlib.figure import Figure
 
-    from orbviz.levels.grid import radial_quantile
-    from orbviz.levels.summary import mean_radius, most_probable_radius_of
-
-    r_max = radial_quantile(orbital, 0.9995)
+    opts = checked(options or PlotOptions(kind="radial"))
+    title = opts.title
+    state.radial_distribution(np.zeros(1))  # a kind without one says so before any work
+    r_max = state.radial_quantile(0.9995)
     r = np.linspace(0.0, r_max, 4001)
-    p = orbital.radial_distribution(r)
-    data = RadialData(
-        r, p, _node_radii(orbital), mean_radius(orbital), most_probable_radius_of(orbital)
-    )
+    p = state.radial_distribution(r)
+    props = state.properties()
+    assert props.mean_radius is not None and props.most_probable_radius is not None
+    spheres = list(state.nodal_surfaces().spheres)
+    data = RadialData(r, p, spheres, props.mean_radius, props.most_probable_radius)
 
     fig = Figure(figsize=(6.4, 4.0), layout="constrained")
     ax = fig.add_subplot()
@@ -214,16 +207,26 @@ def radial_figure(orbital: Orbital, /, *, title: str | None = None):
     ax.set_ylim(0, None)
     ax.set_xlabel("r (bohr)")
     ax.set_ylabel("P(r) (bohr$^{-1}$)")
-    ax.set_title(title or f"{orbital.label}: radial distribution", fontsize=10)
+    ax.set_title(title or f"{state.label}: radial distribution", fontsize=10)
     ax.legend(frameon=False, fontsize=9)
     return fig, data
 
 
-def save_figure(fig, path: str | os.PathLike) -> Path:
-    """Save a matplotlib figure atomically as PNG, SVG or PDF (by suffix)."""
+def plot(
+    state: State, /, options: PlotOptions | None = None, *, fraction: float = DEFAULTS.fraction
+) -> tuple[Any, SliceData | RadialData]:
+    """Return the plot ``options.kind`` names: a slice or the radial distribution."""
+    opts = checked(options or PlotOptions())
+    if opts.kind == "radial":
+        return radial_figure(state, opts)
+    return slice_figure(state, opts, fraction=fraction)
+
+
+def save_figure(fig: Any, path: str | os.PathLike[str]) -> Path:
+    """Save a matplotlib figure as PNG, SVG or PDF (by suffix), all or nothing."""
     from orbviz.export import atomic_paths, check_output
 
-    path = check_output(path, suffixes={".png": None, ".svg": None, ".pdf": None})
-    with atomic_paths(path) as (temp,):
-        fig.savefig(temp, format=path.suffix[1:].lower(), dpi=200)
-    return path
+    (target,) = check_output(path, [".png", ".svg", ".pdf"])
+    with atomic_paths(target) as (temp,):
+        fig.savefig(temp, format=target.suffix[1:].lower(), dpi=200)
+    return target

@@ -1,0 +1,250 @@
+"""One function per command. Each checks every output it will write before any work."""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+from pathlib import Path
+from typing import Any
+
+from orbviz.cli.arguments import options_from
+from orbviz.states.make import make_state, make_states
+from orbviz.states.physics import Physics
+
+__all__ = ["COMMANDS"]
+
+
+def note(text: str, level: str = "note") -> None:
+    """Print a remark for the user, on stderr with the orbviz prefix."""
+    print(f"orbviz: {level}: {text}", file=sys.stderr)
+
+
+def _physics(args: argparse.Namespace) -> Physics:
+    return options_from(args, Physics)
+
+
+def _report_target(path: str | None) -> Path | None:
+    if path is None:
+        return None
+    from orbviz.export import check_output
+
+    (target,) = check_output(path, [".json"])
+    return target
+
+
+def _json(data: dict[str, Any]) -> bytes:
+    return (json.dumps(data, indent=2) + "\n").encode()
+
+
+def info(args: argparse.Namespace) -> int:
+    """Energy, nodes, radii and the enclosing isovalue."""
+    from orbviz.levels.report import format_summary, summarise
+
+    physics = _physics(args)
+    summary = summarise(make_state(args.spec, physics), fraction=physics.fraction)
+    print(json.dumps(summary, indent=2) if args.json else format_summary(summary))
+    return 0
+
+
+def mesh(args: argparse.Namespace) -> int:
+    """Write closed phase-coloured isosurface bodies, in the format the suffix names."""
+    from orbviz.export import check_output, encode_bodies, unit_scale, write_files
+    from orbviz.surface.mesh import build_mesh
+    from orbviz.surface.options import MeshOptions
+
+    physics, options = _physics(args), options_from(args, MeshOptions)
+    target = check_output(args.output)[0]
+    report_path = _report_target(args.report)
+    state = make_state(args.spec, physics)
+    result = build_mesh(state, options, fraction=physics.fraction)
+    files = encode_bodies(
+        result.bodies, target, scale=unit_scale(options.units), units=options.units
+    )
+    if report_path is not None:  # the full report adds the level's check and the box's outside
+        report = {**result.report(), "files": [str(p) for p in files], "units": options.units}
+        bodies = report["bodies"]
+        files[report_path] = _json(report)
+    else:
+        bodies = result.body_facts()
+    written = write_files(files)
+    pieces = ", ".join(
+        f"{b['name']} ({b['pieces']} piece{'s' * (b['pieces'] != 1)})" for b in bodies
+    )
+    watertight = all(b["watertight"] for b in bodies)
+    print(
+        f"wrote {', '.join(str(p) for p in written)}: {sum(b['faces'] for b in bodies)} faces, "
+        f"{pieces}; isovalue {result.isovalue.level:.4e} bohr^-3 encloses "
+        f"{100 * physics.fraction:g}%; watertight: {'yes' if watertight else 'NO'}"
+    )
+    for text in result.notes:
+        note(text)
+    return 0
+
+
+def render(args: argparse.Namespace) -> int:
+    """Render a figure of the isosurface (or of a whole hybrid set) off-screen."""
+    from orbviz.export import check_output, write_files
+    from orbviz.figures.figure import figure
+    from orbviz.figures.options import FigureOptions
+    from orbviz.figures.sets import set_figure
+
+    physics, options = _physics(args), options_from(args, FigureOptions)
+    (target,) = check_output(args.output, [".png"])
+    states = make_states(args.spec, physics)
+    if len(states) > 1:
+        with set_figure(states, options, fraction=physics.fraction) as fig:
+            write_files({target: fig.png()})
+        print(f"wrote {target}: the {len(states)} {args.spec.strip()} hybrids in one figure")
+        return 0
+    with figure(states[0], options, fraction=physics.fraction) as fig:
+        write_files({target: fig.png()})
+        notes = fig.mesh.notes
+    w, h = options.pixels
+    print(f"wrote {target} ({w}x{h}): {states[0].label}, {100 * physics.fraction:g}% isovalue")
+    for text in notes:
+        note(text)
+    return 0
+
+
+def plot(args: argparse.Namespace) -> int:
+    """Plot a density slice or the radial distribution."""
+    from orbviz.export import check_output
+    from orbviz.figures.options import PlotOptions
+    from orbviz.figures.plots import plot as make_plot
+    from orbviz.figures.plots import save_figure
+
+    physics, options = _physics(args), options_from(args, PlotOptions)
+    (target,) = check_output(args.output, [".png", ".svg", ".pdf"])
+    state = make_state(args.spec, physics)
+    fig, _ = make_plot(state, options, fraction=physics.fraction)
+    save_figure(fig, target)
+    print(f"wrote {target}: {options.kind} plot of {state.label}")
+    return 0
+
+
+def model(args: argparse.Namespace) -> int:
+    """Write a printable model in millimetres (STL, split STLs, or 3MF with colour parts)."""
+    from orbviz.export import write_files
+    from orbviz.models.build import build_model, model_targets
+    from orbviz.models.options import ModelOptions
+
+    physics, options = _physics(args), options_from(args, ModelOptions)
+    model_targets(args.output, options)
+    report_path = _report_target(args.report)
+    states = make_states(args.spec, physics)  # a hybrid set (2sp3) makes one model
+    built = build_model(
+        states if len(states) > 1 else states[0], options, fraction=physics.fraction
+    )
+    for check in built.checks:
+        note(check.message, check.level)
+    files = built.files(args.output)
+    facts = built.facts()
+    if report_path is not None:
+        files[report_path] = _json(
+            {
+                "spec": args.spec,
+                "size_mm": options.size_mm,
+                "rod_mm": built.rod_mm,
+                "mm_per_bohr": built.mm_per_bohr,
+                "volume_mm3": facts.volume,
+                "watertight": facts.watertight,
+                "solids": facts.solids,
+                "cavities": facts.cavities,
+                "parts": sorted(built.parts),
+                "checks": [vars(c) for c in built.checks],
+                "files": [str(p) for p in files],
+            }
+        )
+    written = write_files(files)
+    print(
+        f"wrote {', '.join(str(p) for p in written)}: {options.size_mm:g} mm, one body of "
+        f"{facts.volume / 1000:.3g} cm^3, rod {built.rod_mm:.2g} mm, parts "
+        f"{', '.join(sorted(built.parts))}"
+    )
+    return 0
+
+
+def animate(args: argparse.Namespace) -> int:
+    """Write a superposition in motion, to GIF, MP4, an animated GLB or a folder of frames."""
+    from orbviz.figures.animation import animate as make_animation
+    from orbviz.figures.animation_files import check_animation_output, write_animation
+    from orbviz.figures.options import AnimationOptions
+
+    physics, options = _physics(args), options_from(args, AnimationOptions)
+    target = check_animation_output(args.output)
+    state = make_state(args.spec, physics)
+    movie = make_animation(
+        state, options, fraction=physics.fraction, keep_bodies=target.suffix.lower() == ".glb"
+    )
+    write_animation(movie, target)
+    print(
+        f"wrote {target}: {len(movie.images)} frames over {options.periods:g} period(s) of "
+        f"T = {movie.beat.femtoseconds:.4g} fs; level {movie.level:.4e} bohr^-3 throughout"
+    )
+    return 0
+
+
+def _run_batch(scene: Any, out: str, args: argparse.Namespace) -> int:
+    from orbviz.scenes.runner import run_scene
+
+    manifest = run_scene(
+        scene.items,
+        out,
+        jobs=args.jobs,
+        force=args.force,
+        progress=not args.no_progress,
+        title=scene.title,
+        note=note,
+    )
+    states = [e["status"] for e in manifest["items"]]
+    failed = [e for e in manifest["items"] if e["status"] == "failed"]
+    for entry in failed:
+        print(f"orbviz: failed: {entry['name']}: {entry['error']}", file=sys.stderr)
+    print(
+        f"{states.count('done')} done, {states.count('skipped')} skipped, {len(failed)} failed;"
+        f" see {Path(out) / 'index.html'} and {Path(out) / 'manifest.json'}"
+    )
+    return 1 if failed else 0
+
+
+def _folder(path: str) -> str:
+    from orbviz.export import check_targets
+
+    check_targets([Path(path)], folders=True)
+    return path
+
+
+def batch(args: argparse.Namespace) -> int:
+    """Every item of a scene file, in parallel, resumable, with a contact sheet."""
+    from orbviz.scenes.load import load_scene
+
+    out = _folder(args.output)
+    return _run_batch(load_scene(args.scene, tables_anywhere=args.tables_anywhere), out, args)
+
+
+def demo(args: argparse.Namespace) -> int:
+    """Make the demo set shipped inside orbviz."""
+    from importlib.resources import files
+
+    from orbviz.scenes.load import parse_scene
+
+    out = _folder(args.output)
+    text = files("orbviz").joinpath("data/demo.toml").read_text(encoding="utf-8")
+    scene = parse_scene(text, "demo.toml")
+    print(
+        f"orbviz demo: {len(scene.items)} items into {out}/ (figures, meshes and a printable model)"
+    )
+    return _run_batch(scene, out, args)
+
+
+COMMANDS = {
+    "info": info,
+    "mesh": mesh,
+    "render": render,
+    "plot": plot,
+    "model": model,
+    "animate": animate,
+    "batch": batch,
+    "demo": demo,
+}

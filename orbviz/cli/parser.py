@@ -1,0 +1,195 @@
+"""The command-line parser: every command's flags come from the options model."""
+
+from __future__ import annotations
+
+import argparse
+
+from orbviz import __version__
+from orbviz.cli.arguments import add_options
+from orbviz.errors import UsageError
+from orbviz.figures.options import AnimationOptions, FigureOptions, PlotOptions
+from orbviz.models.options import ModelOptions
+from orbviz.states.physics import Physics
+from orbviz.surface.options import MeshOptions
+
+__all__ = ["SPEC_HELP", "build_parser"]
+
+SPEC_HELP = """\
+orbital spec grammar (labels are case-insensitive, spaces are free):
+  2pz  3dx2-y2  4fxyz     real orbital: N followed by s, px, py, pz, dz2, dxz, dyz, dx2-y2,
+                          dxy, fz3, fxz2, fyz2, fz(x2-y2), fxyz, fx(x2-3y2), fy(3x2-y2)
+  4,2,-1                  complex eigenstate of Lz with n, l, m (the real combination with --real:
+                          m > 0 cosine type, m < 0 sine type); n up to 100
+  0.6*2s + 0.8*2pz        superposition; weights are real (0.5, 1e-3), imaginary (2j) or complex
+  (1+1j)*2,1,1 - 3dxy     in parentheses, and are normalised for you
+  2sp3[1]  3sp3d2[6]      one named hybrid of a shell: sp, sp2, sp3, sp3d, sp3d2
+  2sp3                    the whole hybrid set (render and model draw every member)
+  Na:3s  Fe:3d  C:2p      screened hydrogen-like orbital of an element (H to Xe), with the
+                          effective charge from Slater's rules
+  bond(1s,1s,R=2.0,+)     a two-centre LCAO shape, nuclei R bohr apart on z, bonding (+) or
+                          antibonding (-); not a molecular calculation
+Quote the spec in the shell; one that starts with '-' goes after '--'."""
+
+
+class _Parser(argparse.ArgumentParser):
+    def error(self, message: str) -> None:  # type: ignore[override]  # noqa: D102 - argparse hook
+        raise UsageError(f"{message} (see '{self.prog} --help')")
+
+
+def _command(
+    sub: argparse._SubParsersAction[_Parser],
+    name: str,
+    summary: str,
+    description: str,
+    *,
+    spec: bool = True,
+) -> _Parser:
+    """Add a command; those that take an orbital show the spec grammar and the physics flags."""
+    parser: _Parser = sub.add_parser(
+        name,
+        help=summary,
+        description=description,
+        epilog=SPEC_HELP if spec else None,
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    parser.set_defaults(command=name)
+    if spec:
+        parser.add_argument(
+            "spec", help="the orbital, e.g. 3dz2, 4,2,-1, '0.6*2s+0.8*2pz' or bond(1s,1s,R=2,+)"
+        )
+        add_options(parser, Physics)
+    return parser
+
+
+def _output(parser: argparse.ArgumentParser, what: str, metavar: str = "FILE") -> None:
+    parser.add_argument("-o", "--output", required=True, metavar=metavar, help=what)
+
+
+def _report(parser: argparse.ArgumentParser, what: str) -> None:
+    parser.add_argument("--report", metavar="FILE.json", help=f"also write {what} as JSON")
+
+
+def _run_flags(parser: argparse.ArgumentParser) -> None:
+    parser.add_argument(
+        "--jobs",
+        type=int,
+        metavar="N",
+        help="worker processes (default: one per core, fewer if memory is short)",
+    )
+    parser.add_argument("--force", action="store_true", help="redo unchanged items too")
+    parser.add_argument("--no-progress", action="store_true", help="no progress bar")
+
+
+def _spec_commands(sub: argparse._SubParsersAction[_Parser]) -> None:
+    info = _command(
+        sub,
+        "info",
+        "energy, nodes, radii and the enclosing isovalue of an orbital",
+        "Energy, nodes, radii and the isovalue enclosing --fraction of the probability. "
+        "Atomic units: bohr, hartree (eV from CODATA).",
+    )
+    info.add_argument(
+        "--json", action="store_true", help="print one JSON object (keys in docs/info.md)"
+    )
+    mesh = _command(
+        sub,
+        "mesh",
+        "closed phase-coloured isosurface meshes (STL, OBJ, glTF/GLB, PLY, 3MF)",
+        "Closed isosurface bodies enclosing --fraction of the probability, one per phase, "
+        "written in the format the output suffix names (an .obj gets a .mtl, a .gltf a .bin "
+        "beside it). Coordinates in bohr unless --units says otherwise; nucleus at the "
+        "origin, z the quantisation axis.",
+    )
+    _output(mesh, "output: .stl .obj .glb .gltf .ply .3mf")
+    add_options(mesh, MeshOptions)
+    _report(mesh, "the mesh statistics")
+    render = _command(
+        sub,
+        "render",
+        "a publication figure of the isosurface, rendered off-screen to PNG",
+        "An orthographic, phase-coloured figure of the isosurface enclosing --fraction, "
+        "rendered without a display. Complex states get a phase wheel. A hybrid set "
+        "(2sp3) is drawn in one figure, each member in its own colour.",
+    )
+    _output(render, "output: .png", "FILE.png")
+    add_options(render, FigureOptions)
+    plot = _command(
+        sub,
+        "plot",
+        "2D companions: a density slice or the radial distribution (PNG, SVG, PDF)",
+        "A density slice through the nucleus with the isovalue and nodes, or the radial "
+        "distribution with nodes, <r> and the most probable radius.",
+    )
+    _output(plot, "output: .png .svg .pdf")
+    add_options(plot, PlotOptions)
+    model = _command(
+        sub,
+        "model",
+        "a printable model in millimetres (STL, or 3MF with colour parts)",
+        "The isosurface as one watertight solid, its longest side --size mm, phases joined "
+        "by a rod along z with a nucleus bead (and spokes to off-axis lobes). A .3mf (or "
+        "--split) carries each phase and the support as separate colour parts. "
+        "Printability is checked before writing. Read docs/printing.md for the safety notes.",
+    )
+    _output(model, "output: .stl or .3mf")
+    add_options(model, ModelOptions)
+    _report(model, "the model facts")
+    animate = _command(
+        sub,
+        "animate",
+        "a superposition in motion: frames of psi(t), one level, the period in fs",
+        "Plays psi(t) = sum c_k psi_k exp(-i E_k t) over its beat period T = 2 pi / dE, "
+        "at one fixed isovalue for every frame, coloured by phase. Writes an animated "
+        "GIF (.gif), an H.264 video (.mp4), an animated glTF binary (.glb) or, for a "
+        "name without a suffix, a folder of PNG frames (replaced as a whole). A "
+        "superposition of degenerate states does not move and is refused.",
+    )
+    _output(animate, "output: .gif, .mp4, .glb, or a folder", "FILE.gif|FILE.mp4|FILE.glb|DIR")
+    add_options(animate, AnimationOptions)
+
+
+def build_parser() -> _Parser:
+    """Return the ``orbviz`` parser with every command."""
+    parser = _Parser(
+        prog="orbviz",
+        description="Hydrogen-like orbitals as isosurfaces that enclose a stated probability.",
+        epilog=SPEC_HELP,
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    parser.add_argument("--version", action="version", version=f"orbviz {__version__}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+    _spec_commands(sub)
+    batch = _command(
+        sub,
+        "batch",
+        "run a scene file: figures, meshes and models of many orbitals in parallel",
+        "Runs every item of a TOML scene file (see docs/scenes.md) in parallel worker "
+        "processes, keeps DIR/manifest.json up to date, skips unchanged items on a rerun, "
+        "and writes a contact sheet DIR/index.html. Exit status 1 if any item failed.",
+        spec=False,
+    )
+    batch.add_argument("scene", help="scene file (.toml)")
+    _output(batch, "output folder", "DIR")
+    _run_flags(batch)
+    batch.add_argument(
+        "--tables-anywhere",
+        action="store_true",
+        help="allow potential tables outside the scene's folder",
+    )
+    demo = _command(
+        sub,
+        "demo",
+        "make a demo set: the orbitals of n = 1-3, a complex state, a mixture, a model",
+        "Runs the scene shipped inside orbviz (orbviz/data/demo.toml) into DIR.",
+        spec=False,
+    )
+    demo.add_argument(
+        "-o",
+        "--output",
+        default="orbviz-demo",
+        metavar="DIR",
+        help="output folder (default: ./orbviz-demo)",
+    )
+    _run_flags(demo)
+    demo.set_defaults(tables_anywhere=False)
+    return parser

@@ -1,0 +1,164 @@
+"""All-or-nothing writes of a file and its companions (``.mtl``, ``.bin``, split parts, frames).
+
+Every target is checked before any work (:func:`check_targets`). The new contents go to
+temporary files beside their targets; only when all are complete are they put in place, the old
+files first moved aside and restored if any step fails, so a failed or interrupted run leaves the
+old set exactly as it was and nothing new behind. A folder target (animation frames) is written
+as a whole new folder and swapped in, so it is replaced, not topped up.
+
+Temporary names carry the writer's process id, ``.NAME.PID.RANDOM.part``; those of a process that
+is gone (a killed run) are removed on the next write to the same path.
+"""
+
+from __future__ import annotations
+
+import contextlib
+import os
+import shutil
+import tempfile
+from collections.abc import Iterator, Sequence
+from pathlib import Path
+
+from orbviz import _interrupt
+from orbviz.errors import OutputError
+
+__all__ = ["atomic_folder", "atomic_paths", "check_targets"]
+
+
+def _alive(pid: int) -> bool:
+    try:
+        os.kill(pid, 0)
+    except ProcessLookupError:
+        return False
+    except PermissionError:
+        return True
+    return True
+
+
+def _clean_stale(target: Path) -> None:
+    """Remove temporaries of ``target`` left by processes that no longer run."""
+    with contextlib.suppress(OSError):
+        for leftover in target.parent.glob(f".{target.name}.*.part*"):
+            pid = leftover.name[len(target.name) + 2 :].split(".", 1)[0]
+            if pid.isdigit() and int(pid) != os.getpid() and not _alive(int(pid)):
+                if leftover.is_dir():
+                    shutil.rmtree(leftover, ignore_errors=True)
+                else:
+                    leftover.unlink(missing_ok=True)
+
+
+def check_targets(targets: Sequence[Path], *, folders: bool = False) -> None:
+    """Refuse, before any work, targets that cannot be written.
+
+    Parameters
+    ----------
+    targets : sequence of Path
+        Files (or, with ``folders``, folders) that will be written.
+    folders : bool, default: False
+        The targets are folders to be replaced as a whole.
+
+    Raises
+    ------
+    OutputError
+        If a target's folder is missing or not writable, or a target is of the wrong kind
+        (a folder where a file should go, or the reverse).
+    """
+    for target in targets:
+        folder = target.parent
+        if not folder.is_dir():
+            raise OutputError(
+                f"cannot write {str(target)!r}: folder {str(folder)!r} does not exist"
+            )
+        if not os.access(folder, os.W_OK | os.X_OK):
+            raise OutputError(
+                f"cannot write {str(target)!r}: folder {str(folder)!r} is not writable"
+            )
+        if not folders and target.is_dir():
+            raise OutputError(f"cannot write {str(target)!r}: it is a folder")
+        if folders and target.exists() and not target.is_dir():
+            raise OutputError(f"cannot write {str(target)!r}: it exists and is not a folder")
+
+
+def _temporary(target: Path, *, folder: bool = False) -> Path:
+    prefix = f".{target.name}.{os.getpid()}."
+    if folder:
+        return Path(tempfile.mkdtemp(prefix=prefix, suffix=".part", dir=target.parent))
+    handle, name = tempfile.mkstemp(prefix=prefix, suffix=".part", dir=target.parent)
+    os.close(handle)
+    return Path(name)
+
+
+def _discard(path: Path) -> None:
+    with contextlib.suppress(OSError):
+        if path.is_dir() and not path.is_symlink():
+            shutil.rmtree(path)
+        else:
+            path.unlink(missing_ok=True)
+
+
+def _commit(temps: Sequence[Path], targets: Sequence[Path]) -> None:
+    """Put every temporary in place; on any failure put every old target back."""
+    _interrupt.check()  # an interrupt swallowed on the way here still stops the write
+    moved: list[tuple[Path, Path]] = []  # (target, where its old version waits)
+    placed: list[Path] = []
+    try:
+        for target in targets:
+            if target.exists() or target.is_symlink():
+                aside = _temporary(target)
+                aside.unlink()
+                os.replace(target, aside)
+                moved.append((target, aside))
+        for temp, target in zip(temps, targets, strict=True):
+            os.replace(temp, target)
+            placed.append(target)
+    except BaseException:
+        for target in placed:
+            _discard(target)
+        for target, aside in moved:
+            with contextlib.suppress(OSError):
+                os.replace(aside, target)
+        raise
+    for _, aside in moved:
+        _discard(aside)
+
+
+@contextlib.contextmanager
+def atomic_paths(*targets: Path) -> Iterator[list[Path]]:
+    """Yield temporary paths beside ``targets``; put them all in place only on success.
+
+    On any error or interrupt inside the block, or while putting the files in place, every
+    temporary is removed and every target is left as it was.
+    """
+    targets_ = [Path(t) for t in targets]
+    check_targets(targets_)
+    temps: list[Path] = []
+    try:
+        for target in targets_:
+            _clean_stale(target)
+            temps.append(_temporary(target))
+        yield temps
+        for temp in temps:
+            os.chmod(temp, 0o644)
+        _commit(temps, targets_)
+    finally:
+        for temp in temps:
+            _discard(temp)
+
+
+@contextlib.contextmanager
+def atomic_folder(target: Path) -> Iterator[Path]:
+    """Yield an empty temporary folder beside ``target``; swap it in as ``target`` on success.
+
+    An existing folder at ``target`` is replaced as a whole (files it held that the new run
+    does not write are gone), and restored if anything fails.
+    """
+    target = Path(target)
+    check_targets([target], folders=True)
+    _clean_stale(target)
+    temp = _temporary(target, folder=True)
+    try:
+        yield temp
+        os.chmod(temp, 0o755)
+        _commit([temp], [target])
+    finally:
+        _discard(temp)

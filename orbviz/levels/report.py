@@ -1,0 +1,147 @@
+"""What ``orbviz info`` reports: the state's physical numbers and its enclosing isovalue.
+
+The numbers come from :meth:`orbviz.states.state.State.properties` (physics) and
+:func:`orbviz.levels.isovalue.enclosing_isovalue`; this module only gathers and formats them.
+Every kind of state gives the same keys, ``null`` where it has no such number.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from orbviz._defaults import DEFAULTS
+from orbviz.levels.isovalue import enclosing_isovalue
+from orbviz.states.state import State
+
+__all__ = ["format_summary", "hartree_in_ev", "summarise"]
+
+
+def hartree_in_ev() -> float:
+    """Return the hartree in electronvolts (CODATA, via scipy.constants)."""
+    from scipy.constants import physical_constants
+
+    return float(physical_constants["Hartree energy in eV"][0])
+
+
+def summarise(state: State, /, *, fraction: float = DEFAULTS.fraction) -> dict[str, Any]:
+    """Everything ``orbviz info`` reports, as plain JSON-ready values.
+
+    Parameters
+    ----------
+    state : State
+        Any kind of state.
+    fraction : float, default: 0.9
+        Probability the isosurface should enclose.
+
+    Returns
+    -------
+    dict
+        The keys of docs/info.md: ``spec``, ``label``, ``kind``, ``n``, ``l``, ``m``, ``Z``,
+        ``element``, ``form``, ``reduced_mass``, ``mass_ratio``, ``energy_hartree``,
+        ``energy_ev``, ``degeneracy``, ``potential``, ``radial_nodes``, ``angular_nodes``,
+        ``radial_node_radii_bohr``, ``mean_radius_bohr``, ``most_probable_radius_bohr``,
+        ``fraction``, ``isovalue``, ``enclosed_fraction``, ``isovalue_method``,
+        ``surface_max_radius_bohr``, ``notes``; a bond adds ``bond_distance_bohr``,
+        ``overlap`` and ``normalisation``. Numbers a kind does not have are None.
+    """
+    props = state.properties()
+    iso = enclosing_isovalue(state, fraction=fraction)
+    first = state.centres[0].orbital  # every centre shares the charge and mass ratio
+    energy = props.energy_hartree
+    potential = first.potential.describe() if first.potential is not None else None
+    return {
+        "spec": state.spec,
+        "label": state.label,
+        "kind": state.kind,
+        "n": props.n,
+        "l": props.l,
+        "m": props.m,
+        "Z": first.Z,
+        "element": first.element,
+        "form": props.form,
+        "reduced_mass": first.mass_ratio != 1.0,
+        "mass_ratio": first.mass_ratio,
+        "energy_hartree": energy,
+        "energy_ev": None if energy is None else energy * hartree_in_ev(),
+        "degeneracy": props.degeneracy,
+        "potential": potential,
+        "radial_nodes": props.radial_nodes,
+        "angular_nodes": props.angular_nodes,
+        "radial_node_radii_bohr": (
+            None if props.radial_node_radii is None else list(props.radial_node_radii)
+        ),
+        "mean_radius_bohr": props.mean_radius,
+        "most_probable_radius_bohr": props.most_probable_radius,
+        **props.extra,
+        "fraction": iso.fraction,
+        "isovalue": iso.level,
+        "enclosed_fraction": iso.enclosed_fraction,
+        "isovalue_method": iso.method,
+        "surface_max_radius_bohr": iso.max_radius,
+        "notes": list(state.notes),
+    }
+
+
+def _state_lines(info: dict[str, Any]) -> list[str]:
+    lines = [f"orbital       {info['label']}   (spec {info['spec']!r})"]
+    if "bond_distance_bohr" in info:
+        lines.append(
+            f"combination   nuclei at z = -+{info['bond_distance_bohr'] / 2:g} bohr; overlap "
+            f"S = {info['overlap']:.8f}; normalisation N = {info['normalisation']:.8f}"
+        )
+    elif info["n"] is not None:
+        kind = "real combination" if info["form"] == "real" else "complex, eigenstate of Lz"
+        lines.append(f"state         n={info['n']} l={info['l']} m={info['m']}  ({kind})")
+    else:
+        lines.append(f"state         superposition ({info['form']} valued)")
+    mass = (
+        f"reduced mass on, mu/m_e = {info['mass_ratio']:.10f}"
+        if info["reduced_mass"]
+        else "reduced mass off (infinite nuclear mass)"
+    )
+    lines.append(f"nucleus       Z = {info['Z']:g}; {mass}")
+    if info["potential"] is not None:
+        lines.append(f"potential     {info['potential']} (radial part solved numerically)")
+    return lines
+
+
+def _energy_lines(info: dict[str, Any]) -> list[str]:
+    if info["energy_hartree"] is None:
+        return ["energy        none: an unoptimised combination has no energy of its own"]
+    energy = f"{info['energy_hartree']:.10g} hartree = {info['energy_ev']:.8g} eV"
+    if info["degeneracy"] is None:
+        energy += "  (expectation value)"
+    else:
+        energy += f"  (degeneracy {info['degeneracy']}, spin not counted)"
+    return [f"energy        {energy}"]
+
+
+def _node_lines(info: dict[str, Any]) -> list[str]:
+    if info["radial_nodes"] is None:
+        return []
+    nodes = f"{info['radial_nodes']} radial"
+    if info["angular_nodes"] is not None:
+        nodes += f", {info['angular_nodes']} angular"
+        if info["form"] == "complex" and info["m"]:
+            nodes += " (and the z axis, a nodal line)"
+    if info["radial_node_radii_bohr"]:
+        radii = ", ".join(f"{r:.6g}" for r in info["radial_node_radii_bohr"])
+        nodes += f"; radial nodes at r = {radii} bohr"
+    return [f"nodes         {nodes}"]
+
+
+def format_summary(info: dict[str, Any]) -> str:
+    """Readable multi-line text for a :func:`summarise` result."""
+    lines = _state_lines(info) + _energy_lines(info) + _node_lines(info)
+    if info["mean_radius_bohr"] is not None:
+        lines.append(
+            f"radius        <r> = {info['mean_radius_bohr']:.8g} bohr; most probable "
+            f"{info['most_probable_radius_bohr']:.8g} bohr"
+        )
+    lines.append(
+        f"isovalue      |psi|^2 = {info['isovalue']:.6e} bohr^-3 encloses "
+        f"{100 * info['enclosed_fraction']:.4f}% (asked {100 * info['fraction']:g}%); "
+        f"surface reaches r = {info['surface_max_radius_bohr']:.4g} bohr"
+    )
+    lines += [f"note          {note}" for note in info["notes"]]
+    return "\n".join(lines)

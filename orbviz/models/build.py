@@ -1,0 +1,264 @@
+"""Printable teaching models: the isosurface bodies scaled to millimetres and made one solid.
+
+The phases are joined by a rod, a bead and spokes (:mod:`orbviz.models.solids`), united by
+robust mesh booleans (manifold3d). For a multi-material printer the same solid is split into
+disjoint colour parts: the support (rod, bead, spokes, stand) and each phase less the support.
+Printability is checked before anything is written (:mod:`orbviz.models.printability`).
+"""
+
+from __future__ import annotations
+
+import os
+from collections.abc import Sequence
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+
+from orbviz._defaults import DEFAULTS
+from orbviz._options import checked
+from orbviz.errors import ModelError, OutputError
+from orbviz.levels.grid import box_half_width
+from orbviz.levels.isovalue import enclosing_isovalue
+from orbviz.models.options import ModelOptions
+from orbviz.models.printability import Check, printability
+from orbviz.models.solids import arrays, cylinder, support, to_manifold, union
+from orbviz.states.state import State
+from orbviz.surface.checks import MeshFacts, mesh_facts
+from orbviz.surface.colors import RGBA, SET_PALETTE
+from orbviz.surface.contour import Body
+from orbviz.surface.mesh import OrbitalMesh, build_mesh
+from orbviz.surface.options import MeshOptions
+
+__all__ = ["SUPPORT_RGBA", "PrintModel", "build_model", "model_targets"]
+
+SUPPORT_RGBA: RGBA = (190, 190, 190, 255)  # neutral grey: print it in either material
+
+
+def model_targets(path: str | os.PathLike[str], options: ModelOptions) -> list[Path]:
+    """Every file a model written to ``path`` makes: checked before any work.
+
+    A ``.3mf`` is one file; an ``.stl`` is the solid, or with ``split`` one file per colour
+    part (``STEM-support.stl`` and one per phase; the phases are known only once meshed, so
+    all three possible names are checked).
+    """
+    from orbviz.export import check_output
+
+    path = Path(path)
+    if options.split and path.suffix.lower() != ".stl":
+        raise OutputError(f"cannot write {str(path)!r}: split parts are written as .stl files")
+    (target,) = check_output(path, [".stl", ".3mf"])
+    if not options.split:
+        return [target]
+    from orbviz.export import check_targets
+
+    names = ("support", "positive", "negative", "surface")
+    parts = [target.with_name(f"{target.stem}-{n}.stl") for n in names]
+    check_targets(parts)
+    return parts
+
+
+@dataclass
+class PrintModel:
+    """A printable solid and its colour parts, in millimetres.
+
+    Attributes
+    ----------
+    solid : manifold3d.Manifold
+        The whole model as one body.
+    parts : dict of str to manifold3d.Manifold
+        Disjoint colour parts (``support``, ``positive``, ``negative`` or ``surface``).
+    colors : dict of str to RGBA tuple
+        The colour of each part.
+    mm_per_bohr : float
+        The scale of the model.
+    rod_mm : float
+        Rod (and spoke) diameter in the finished model.
+    checks : list of Check
+        Printability findings.
+    split : bool
+        Written as one STL per colour part.
+    """
+
+    solid: Any
+    parts: dict[str, Any]
+    colors: dict[str, RGBA]
+    mm_per_bohr: float
+    rod_mm: float
+    checks: list[Check] = field(default_factory=list)
+    split: bool = False
+
+    def __repr__(self) -> str:
+        lo, hi = (np.array(b) for b in _bbox(self.solid))
+        size = ", ".join(f"{v:.1f}" for v in hi - lo)
+        return f"PrintModel({size} mm, parts {sorted(self.parts)}, rod {self.rod_mm:.2g} mm)"
+
+    def bodies(self, which: str = "solid") -> list[Body]:
+        """Return the solid, or the colour parts, as bodies in mm for the writers."""
+        items = {"solid": self.solid} if which == "solid" else self.parts
+        out = []
+        for name, manifold in items.items():
+            vertices, faces = arrays(manifold)
+            rgba = SUPPORT_RGBA if name in ("solid", "support") else self.colors[name]
+            colors = np.tile(np.array(rgba, dtype=np.uint8), (len(vertices), 1))
+            zeros = np.zeros_like(vertices, np.float32)
+            out.append(Body(name, vertices, faces, zeros, zeros[:, 0].copy(), colors, unit="mm"))
+        return out
+
+    def facts(self) -> MeshFacts:
+        """Volume, closedness and pieces of the solid (orbviz.surface.checks)."""
+        return mesh_facts(*arrays(self.solid))
+
+    def files(self, path: str | os.PathLike[str]) -> dict[Path, bytes]:
+        """Return the bytes of each file the model writes to ``path`` (.stl, split .stl, .3mf)."""
+        from orbviz.export import encode_bodies
+
+        path = Path(path)
+        if path.suffix.lower() == ".3mf":
+            return encode_bodies(self.bodies("parts"), path, scale=1.0, units="mm")
+        if not self.split:
+            return encode_bodies(self.bodies("solid"), path, scale=1.0, units="mm")
+        files: dict[Path, bytes] = {}
+        for body in self.bodies("parts"):
+            part = path.with_name(f"{path.stem}-{body.name}.stl")
+            files.update(encode_bodies([body], part, scale=1.0, units="mm"))
+        return files
+
+    def export(self, path: str | os.PathLike[str]) -> list[Path]:
+        """Write the model (.stl, or .3mf with colour parts) in mm, all files or none."""
+        from orbviz.export import check_output, write_files
+
+        check_output(path, [".stl", ".3mf"])
+        return write_files(self.files(path))
+
+
+def _bbox(solid: Any) -> tuple[Any, Any]:
+    box = solid.bounding_box()
+    return box[:3], box[3:]
+
+
+def _cut_box(cut: str) -> Any:
+    """Make a box covering the removed region: x > 0 (half) or x > 0, y > 0 (quarter)."""
+    import manifold3d
+
+    big = 1e4
+    box = manifold3d.Manifold.cube((big, big if cut == "quarter" else 2 * big, 2 * big))
+    return box.translate((0.0, 0.0 if cut == "quarter" else -big, -big))
+
+
+def _stand(solids: list[Any], rod_mm: float, size: float) -> Any:
+    """Return a round base plate under the solids, with a post up to the nucleus."""
+    import manifold3d
+
+    lo, _ = _bbox(union(solids))
+    thickness = max(2.0, 1.5 * rod_mm)
+    plate_z = lo[2] - 0.5 * rod_mm
+    plate = manifold3d.Manifold.cylinder(thickness, 0.3 * size, 0.3 * size, circular_segments=96)
+    plate = plate.translate((0.0, 0.0, plate_z - thickness))
+    post = cylinder(np.array([0.0, 0.0, plate_z - 0.5 * thickness]), np.zeros(3), 0.5 * rod_mm)
+    return plate + post
+
+
+def _assemble(bodies: list[Body], scale: float, options: ModelOptions, rod_mm: float) -> Any:
+    """Return the solid and disjoint colour parts at ``scale`` mm per bohr."""
+    solids = {b.name: to_manifold(b.vertices * scale, b.faces) for b in bodies}
+    box = _cut_box(options.cut) if options.cut is not None else None
+    if box is not None:  # cut first, so that the support joins the pieces that remain
+        solids = {k: v - box for k, v in solids.items()}
+    pieces = [p for solid in solids.values() for p in solid.decompose()]
+    held = support(pieces, 0.5 * rod_mm)
+    if options.stand:
+        held = held + _stand([*solids.values(), held], rod_mm, options.size_mm)
+    if box is not None:
+        held = held - box
+    parts = {"support": held}
+    taken = held
+    for name, solid in solids.items():  # disjoint parts: each less everything taken before it
+        parts[name] = solid - taken
+        taken = taken + solid
+    return union([*solids.values(), held]), parts
+
+
+def _set_bodies(
+    states: Sequence[State], options: ModelOptions, fraction: float
+) -> tuple[list[Body], list[OrbitalMesh]]:
+    """Each member's large lobe as one body (``lobe-K``), all in one box.
+
+    The small lobes would overlap the others' and are left out of a printed set.
+    """
+    isos = [enclosing_isovalue(s, fraction=fraction, check=False) for s in states]
+    width = max(box_half_width(s, i, options.grid) for s, i in zip(states, isos, strict=True))
+    meshes, bodies = [], []
+    for k, (s, i) in enumerate(zip(states, isos, strict=True)):
+        mesh = build_mesh(
+            s, MeshOptions(grid=options.grid), fraction=fraction, half_width=width, level=i
+        )
+        (lobe,) = [b for b in mesh.bodies if b.name == "positive"]
+        bodies.append(
+            Body(f"lobe-{k + 1}", lobe.vertices, lobe.faces, lobe.normals, lobe.phase, lobe.colors)
+        )
+        meshes.append(mesh)
+    return bodies, meshes
+
+
+def build_model(
+    state: State | Sequence[State],
+    /,
+    options: ModelOptions | None = None,
+    *,
+    fraction: float = DEFAULTS.fraction,
+    mesh: OrbitalMesh | None = None,
+) -> PrintModel:
+    """Build a printable model whose longest side is ``options.size_mm`` millimetres.
+
+    Parameters
+    ----------
+    state : State or sequence of State
+        Any kind of state, or the members of a set (each member's large lobe is printed).
+    options : ModelOptions, optional
+        Size, rod, thinnest feature, stand, cut, grid and colours (checked by their rules).
+    fraction : float, default: 0.9
+        Probability inside the surface.
+    mesh : OrbitalMesh, optional
+        This state's mesh, if already built with this fraction, grid and colours (a batch
+        item's figure and model share one); it is read, not changed.
+
+    Raises
+    ------
+    ModelError
+        If the parts would not join into one printable body.
+    """
+    opts = checked(options or ModelOptions())
+    if isinstance(state, (list, tuple)):
+        bodies, meshes = _set_bodies(state, opts, fraction)
+    else:
+        mesh = mesh or build_mesh(
+            state, MeshOptions(grid=opts.grid, colors=opts.colors), fraction=fraction
+        )  # type: ignore[arg-type]
+        bodies, meshes = mesh.bodies, [mesh]
+    size = opts.size_mm
+    scale = size / float(np.ptp(np.vstack([b.vertices for b in bodies]), axis=0).max())
+    for _ in range(2):  # the stand changes the bounding box: rescale once more
+        solid, parts = _assemble(bodies, scale, opts, opts.rod)
+        lo, hi = (np.array(b) for b in _bbox(solid))
+        longest = float((hi - lo).max())
+        scale *= size / longest
+    factor = size / longest
+    colours: dict[str, RGBA] = {"positive": opts.colors[0], "negative": opts.colors[1]}
+    colours.update({"surface": SUPPORT_RGBA, "support": SUPPORT_RGBA})
+    for k in range(len(bodies)):
+        colours[f"lobe-{k + 1}"] = (*SET_PALETTE[k % len(SET_PALETTE)], 255)
+    result = PrintModel(
+        solid.scale((factor,) * 3),
+        {k: v.scale((factor,) * 3) for k, v in parts.items() if not v.is_empty()},
+        colours,
+        scale,  # the last pass's scale times factor: the finished model's mm per bohr
+        opts.rod * factor,
+        split=opts.split,
+    )
+    result.checks = printability(result, meshes, opts)
+    errors = [c.message for c in result.checks if c.level == "error"]
+    if errors:
+        raise ModelError("; ".join(errors))
+    return result

@@ -1,0 +1,313 @@
+"""Scene files: TOML describing a set of figures, meshes and models (format in docs/scenes.md).
+
+A scene has a ``[defaults]`` table, ``[[orbital]]`` items (one spec each), and ``[[shells]]``
+items that expand to every real orbital of the listed shells. Every value of every table is
+checked here, by the same rules as the command line and the API (:mod:`orbviz._options`), and
+every spec is made into its state, before any work starts. Errors name the file, the item and
+the key: ``lab.toml: orbital 3 ('2pz'): render.view: expected iso, x, y, z or AZ,EL ...``.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import re
+import tomllib
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+from orbviz._options import build, external_keys
+from orbviz.errors import OptionError, OrbvizError, SceneError
+from orbviz.figures.options import FigureOptions
+from orbviz.models.options import ModelOptions
+from orbviz.scenes.items import OUTPUTS, Item, slug
+from orbviz.states.angular import LABELS
+from orbviz.states.physics import Physics
+from orbviz.surface.options import MeshOptions
+
+__all__ = ["Scene", "load_scene", "parse_scene"]
+
+_MAX_BYTES = 1_000_000
+_NAME = re.compile(r"[A-Za-z0-9][A-Za-z0-9._-]{0,99}")
+_HEADER = re.compile(r"^\s*\[\[\s*(orbital|shells)\s*\]\]", re.M)
+_SHELL_MAX = 12
+_PHYSICS = {v: k for k, v in external_keys(Physics).items()}
+_SHARED = {"grid", "colors"}  # common keys that go into the render and model tables
+_RENDER = {v: k for k, v in external_keys(FigureOptions).items() if v not in _SHARED}
+_MODEL = {v: k for k, v in external_keys(ModelOptions).items() if v not in _SHARED and v != "split"}
+_COMMON = set(_PHYSICS) | _SHARED | {"outputs", "atom"}
+
+
+@dataclass(frozen=True)
+class Scene:
+    """A checked scene: its title and items."""
+
+    title: str
+    items: list[Item]
+
+
+@dataclass(frozen=True)
+class _Where:
+    source: str
+    item: str
+
+    def __str__(self) -> str:
+        return f"{self.source}: {self.item}"
+
+    def error(self, key: str, rule: str) -> SceneError:
+        return SceneError(f"{self}: {key}: {rule}")
+
+
+def _layer(table: Any, where: _Where, allow: set[str]) -> dict[str, Any]:
+    """Check a table's keys (values are checked when the options are built)."""
+    if not isinstance(table, dict):
+        raise SceneError(f"{where}: expected a table, got {table!r}")
+    for key, value in table.items():
+        if key in ("render", "model"):
+            known = _RENDER if key == "render" else _MODEL
+            if not isinstance(value, dict):
+                raise where.error(key, f"expected a table, got {value!r}")
+            for sub in value:
+                if sub not in known:
+                    raise where.error(
+                        f"{key}.{sub}", f"unknown key (known: {', '.join(sorted(known))})"
+                    )
+        elif key not in _COMMON and key not in allow:
+            known_keys = sorted(_COMMON | {"render", "model"} | allow)
+            raise where.error(key, f"unknown key (known: {', '.join(known_keys)})")
+    return dict(table)
+
+
+def _merge(defaults: dict[str, Any], own: dict[str, Any]) -> dict[str, Any]:
+    merged: dict[str, Any] = {"render": {}, "model": {}}
+    for layer in (defaults, own):
+        for key, value in layer.items():
+            merged[key] = {**merged[key], **value} if key in ("render", "model") else value
+    return merged
+
+
+def _options(
+    cls: type, values: dict[str, Any], keys: dict[str, str], where: _Where, prefix: str
+) -> Any:
+    fields = {keys[k]: v for k, v in values.items()}
+    names = {f: k for k, f in keys.items()}
+    try:
+        return build(cls, fields, key=lambda f: prefix + names.get(f, f))
+    except OptionError as error:
+        raise where.error(error.key, error.rule) from None
+
+
+def _outputs(value: Any, where: _Where) -> tuple[str, ...]:
+    if not (isinstance(value, list) and value and all(v in OUTPUTS for v in value)):
+        raise where.error(
+            "outputs", f"expected a non-empty list of {', '.join(OUTPUTS)}, got {value!r}"
+        )
+    return tuple(dict.fromkeys(value))
+
+
+def _table(
+    physics: Physics, base: Path, where: _Where, anywhere: bool
+) -> tuple[Physics, tuple[tuple[str, str], ...]]:
+    """Resolve a potential table beside the scene; hash its contents for reruns."""
+    text = physics.potential or ""
+    if not text.lower().startswith("table:"):
+        return physics, ()
+    path = (base / text.split(":", 1)[1].strip()).resolve()
+    if not anywhere and not path.is_relative_to(base.resolve()):
+        raise where.error(
+            "potential",
+            "a table must lie in the scene's folder or below it (or allow tables anywhere on "
+            "the command line)",
+        )
+    try:
+        digest = hashlib.sha256(path.read_bytes()).hexdigest()
+    except OSError as error:
+        raise where.error(
+            "potential", f"cannot read table {path.name!r}: {error.strerror}"
+        ) from None
+    return build(Physics, {"potential": f"table:{path}"}, base=physics), ((str(path), digest),)
+
+
+def _item(
+    name: Any, spec: str, values: dict[str, Any], where: _Where, base: Path, anywhere: bool
+) -> Item:
+    physics = _options(
+        Physics, {k: values[k] for k in _PHYSICS if k in values}, _PHYSICS, where, ""
+    )
+    physics, inputs = _table(physics, base, where, anywhere)
+    shared = {k: values[k] for k in _SHARED if k in values}
+    _options(MeshOptions, shared, {"grid": "grid", "colors": "colors"}, where, "")
+    figure = _options(
+        FigureOptions,
+        {**values["render"], **shared},
+        {**_RENDER, "grid": "grid", "colors": "colors"},
+        where,
+        "render.",
+    )
+    model = _options(
+        ModelOptions,
+        {**values["model"], **shared},
+        {**_MODEL, "grid": "grid", "colors": "colors"},
+        where,
+        "model.",
+    )
+    outputs = _outputs(values.get("outputs", ["png", "glb"]), where)
+    atom = values.get("atom")
+    if atom is not None:
+        if not (isinstance(atom, str) and re.fullmatch(r"[A-Za-z]{1,2}", atom)):
+            raise where.error("atom", f"expected an element symbol such as Na, got {atom!r}")
+        spec = f"{atom}:{spec}"
+    try:
+        physics.state(spec)
+    except OrbvizError as error:
+        raise where.error("spec", str(error)) from None
+    if name is None:
+        name = slug(spec, physics.Z)
+    elif not (isinstance(name, str) and _NAME.fullmatch(name)):
+        raise where.error(
+            "name",
+            f"{name!r} must be 1-100 letters, digits, '.', '_' or '-', starting with a letter "
+            "or digit",
+        )
+    return Item(name, spec, physics, outputs, figure, model, inputs, str(where))
+
+
+def _shell_specs(n: int) -> list[str]:
+    specs = []
+    for l in range(n):
+        labels = [name for name, (ll, _) in LABELS.items() if ll == l]  # the real labels of l
+        if labels:
+            specs += [f"{n}{label}" for label in labels]
+        else:  # no labels beyond f: real combinations by quantum numbers
+            specs += [f"{n},{l},{m}" for m in range(-l, l + 1)]
+    return specs
+
+
+def _entries(doc: dict[str, Any], text: str, source: str) -> list[tuple[str, int, Any]]:
+    """(kind, index, table) in file order (TOML keeps order within an array, not across)."""
+    for kind in ("orbital", "shells"):
+        if not isinstance(doc.get(kind, []), list):
+            raise SceneError(f"{source}: '{kind}' must be an array of tables ([[{kind}]])")
+    counters = {"orbital": 0, "shells": 0}
+    sequence = []
+    for kind in _HEADER.findall(text):
+        if counters[kind] < len(doc.get(kind, [])):
+            counters[kind] += 1
+            sequence.append((kind, counters[kind], doc[kind][counters[kind] - 1]))
+    for kind in ("orbital", "shells"):  # tables written inline, without a [[...]] header
+        for index in range(counters[kind], len(doc.get(kind, []))):
+            sequence.append((kind, index + 1, doc[kind][index]))
+    return sequence
+
+
+def _expand(
+    kind: str, index: int, entry: Any, source: str
+) -> tuple[_Where, list[tuple[str, Any]], dict[str, Any]]:
+    where = _Where(source, f"{kind} {index}")
+    if not isinstance(entry, dict):
+        raise SceneError(f"{where}: expected a table, got {entry!r}")
+    if kind == "orbital":
+        spec = entry.get("spec")
+        if spec is None:
+            raise where.error("spec", "missing")
+        if not isinstance(spec, str) or len(spec) > 4000:
+            raise where.error("spec", f"expected spec text, got {spec!r}")
+        where = _Where(source, f"orbital {index} ({spec!r})")
+        return where, [(spec, entry.get("name"))], _layer(entry, where, {"spec", "name"})
+    if "n" not in entry:
+        raise where.error("n", "missing")
+    ns = entry["n"] if isinstance(entry["n"], list) else [entry["n"]]
+    if not ns or not all(
+        isinstance(n, int) and not isinstance(n, bool) and 1 <= n <= _SHELL_MAX for n in ns
+    ):
+        raise where.error("n", f"expected whole numbers 1..{_SHELL_MAX}, got {entry['n']!r}")
+    own = _layer(entry, where, {"n"})
+    return where, [(s, None) for n in ns for s in _shell_specs(n)], own
+
+
+def _check_names(items: list[Item], source: str) -> None:
+    """Refuse items whose files would collide (case-insensitively, as on many file systems)."""
+    owners: dict[str, Item] = {}
+    for item in items:
+        for name in item.files():
+            other = owners.setdefault(name.lower(), item)
+            if other is not item:
+                raise SceneError(
+                    f"{source}: {item.where} and {other.where} both write {name!r}; give one a "
+                    "different 'name'"
+                )
+
+
+def _document(text: str, source: str) -> dict[str, Any]:
+    try:
+        return tomllib.loads(text)
+    except tomllib.TOMLDecodeError as error:
+        raise SceneError(f"{source}: not valid TOML: {error}") from None
+    except RecursionError:
+        raise SceneError(f"{source}: not usable: its values are nested too deeply") from None
+
+
+def parse_scene(
+    text: str, source: str = "<scene>", *, base: str | Path = ".", tables_anywhere: bool = False
+) -> Scene:
+    """Read scene TOML text into checked items.
+
+    Parameters
+    ----------
+    text : str
+        The scene.
+    source : str
+        Its name, for messages.
+    base : path-like, default: "."
+        The scene's folder: potential tables are read relative to it, and must lie in it.
+    tables_anywhere : bool, default: False
+        Allow potential tables outside ``base``.
+
+    Raises
+    ------
+    SceneError
+        On TOML errors, unknown keys, bad values, unsafe or colliding names, and specs that do
+        not make a state, each naming the file, the item and the key.
+    """
+    doc = _document(text, source)
+    unknown = set(doc) - {"defaults", "orbital", "shells", "title"}
+    if unknown:
+        raise SceneError(
+            f"{source}: unknown table {sorted(unknown)[0]!r} (known: defaults, orbital, shells, "
+            "title)"
+        )
+    title = doc.get("title", Path(source).stem)
+    if not (isinstance(title, str) and len(title) <= 200):
+        raise SceneError(f"{source}: title: expected text of at most 200 characters")
+    defaults_where = _Where(source, "[defaults]")
+    defaults = _layer(doc.get("defaults", {}), defaults_where, set())
+    _item(None, "1s", _merge(defaults, {}), defaults_where, Path(base), tables_anywhere)
+    items = []
+    for kind, index, entry in _entries(doc, text, source):
+        where, specs, own = _expand(kind, index, entry, source)
+        values = _merge(defaults, own)
+        items += [
+            _item(name, spec, values, where, Path(base), tables_anywhere) for spec, name in specs
+        ]
+    if not items:
+        raise SceneError(f"{source}: no items: add [[orbital]] or [[shells]] tables")
+    _check_names(items, source)
+    return Scene(title, items)
+
+
+def load_scene(path: str | Path, *, tables_anywhere: bool = False) -> Scene:
+    """Read and check a scene file (UTF-8 TOML, at most 1 MB)."""
+    path = Path(path)
+    try:
+        if path.is_dir():
+            raise SceneError(f"cannot read scene {str(path)!r}: it is a folder")
+        data = path.read_bytes()
+    except OSError as error:
+        raise SceneError(f"cannot read scene {str(path)!r}: {error.strerror}") from None
+    if len(data) > _MAX_BYTES:
+        raise SceneError(f"{path.name}: larger than {_MAX_BYTES // 1000} kB; split the scene")
+    try:
+        text = data.decode("utf-8")
+    except UnicodeDecodeError as error:
+        raise SceneError(f"{path.name}: not UTF-8 text (byte {error.start})") from None
+    return parse_scene(text, path.name, base=path.resolve().parent, tables_anywhere=tables_anywhere)

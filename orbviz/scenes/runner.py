@@ -1,0 +1,327 @@
+"""Run a scene: every item in a worker, a manifest kept up to date, a contact sheet at the end.
+
+The runner is built on :class:`concurrent.futures.Executor`. By default it is a local pool of
+spawned worker processes, sized by cores and by memory. Any executor whose futures work with
+:func:`concurrent.futures.as_completed` can be passed in, for instance a Dask cluster's
+``Client.get_executor()``. Items are plain data, and :func:`run_item` is a top-level function,
+so both pickle.
+
+Each item's files are written together, all or none, so the manifest never lists a file that
+is not whole. The batch holds the folder's lock while it runs; its own workers die with it
+(``PR_SET_PDEATHSIG`` on Linux, and a watchdog besides) and never write after it is gone.
+"""
+
+from __future__ import annotations
+
+import concurrent.futures as cf
+import dataclasses
+import os
+import sys
+import threading
+import time
+from collections.abc import Callable
+from pathlib import Path
+from typing import Any
+
+from orbviz.errors import OrbvizError, OutputError
+from orbviz.scenes.items import MESH_OUTPUTS, MODEL_OUTPUTS, Item
+from orbviz.scenes.manifest import folder_lock, previous, unchanged, write_manifest
+from orbviz.scenes.sheet import write_contact_sheet
+
+__all__ = ["THUMBNAIL", "plan_jobs", "run_item", "run_scene"]
+
+THUMBNAIL = (320, 240)
+_WORKER_BASE_BYTES = 600 * 2**20  # a worker's imports and render window, measured ~450-550 MB
+_parent: int | None = None  # the batch process a worker serves (None outside a batch pool)
+
+
+def _die_with_parent(parent: int) -> None:
+    """Worker initializer: end this worker the moment the batch process ends, however it ends."""
+    global _parent
+    _parent = parent
+    if sys.platform.startswith("linux"):
+        import ctypes
+        import signal
+
+        ctypes.CDLL(None, use_errno=True).prctl(1, int(signal.SIGKILL))  # PR_SET_PDEATHSIG
+    if os.getppid() != parent:  # the parent was gone before the signal was armed
+        os._exit(1)
+
+    def watch() -> None:
+        while os.getppid() == parent:
+            time.sleep(0.5)
+        os._exit(1)
+
+    threading.Thread(target=watch, name="orbviz-parent-watch", daemon=True).start()
+
+
+def _orphaned() -> bool:
+    return _parent is not None and os.getppid() != _parent
+
+
+def _item_files(item: Item, out: Path) -> tuple[dict[Path, bytes], dict[str, Any]]:
+    """Every file of one item, as bytes by path, and the numbers for its manifest entry."""
+    from orbviz.export import encode_bodies
+    from orbviz.figures.figure import figure
+    from orbviz.models.build import build_model
+    from orbviz.surface.mesh import build_mesh
+
+    state = item.physics.state(item.spec)
+    fraction = item.physics.fraction
+    mesh = build_mesh(state, item.mesh, fraction=fraction, half_width=item.figure.extent)
+    files: dict[Path, bytes] = {}
+    for kind in (o for o in item.outputs if o in MESH_OUTPUTS):
+        files.update(
+            encode_bodies(mesh.bodies, out / f"{item.name}.{kind}", scale=1.0, units="bohr")
+        )
+    looks = item.figure
+    if "png" not in item.outputs:
+        looks = dataclasses.replace(looks, size=THUMBNAIL, scale=1.0)
+    with figure(state, looks, fraction=fraction, mesh=mesh) as fig:
+        png = fig.png()
+        thumb = fig.png(size=THUMBNAIL)
+    if "png" in item.outputs:
+        files[out / f"{item.name}.png"] = png
+    files[out / "thumbs" / f"{item.name}.png"] = thumb
+    if any(o in MODEL_OUTPUTS for o in item.outputs):
+        # the figure's mesh serves the model too, unless a fixed extent changed its box
+        shared = mesh if item.figure.extent is None else None
+        model = build_model(state, item.model, fraction=fraction, mesh=shared)
+        for kind in (o for o in item.outputs if o in MODEL_OUTPUTS):
+            files.update(model.files(out / f"{item.name}-model.{kind.split('.')[1]}"))
+    report = mesh.report()
+    numbers = {
+        "isovalue": report["isovalue"],
+        "fraction": report["fraction"],
+        "enclosed_fraction": report["isovalue_enclosed_fraction"],
+        "faces": report["faces"],
+        "vertices": report["vertices"],
+        "watertight": report["watertight"],
+        "volume_bohr3": sum(b["volume_bohr3"] for b in report["bodies"]),
+    }
+    return files, numbers
+
+
+def run_item(item: Item, out_dir: str) -> dict[str, Any]:
+    """Make every output of one item in ``out_dir``, all files or none; never raises for a bad item.
+
+    Returns
+    -------
+    dict
+        The manifest entry: ``name``, ``spec``, ``status`` (``done`` or ``failed``), ``files``
+        (relative to ``out_dir``), ``thumbnail``, ``checksums`` (size and SHA-256 of each),
+        ``hash``, ``seconds``, and the isovalue and mesh statistics, or ``error``.
+    """
+    import hashlib
+
+    from orbviz.export import write_files
+
+    start = time.perf_counter()
+    out = Path(out_dir)
+    entry: dict[str, Any] = {"name": item.name, "spec": item.spec, "hash": item.digest}
+    try:
+        files, numbers = _item_files(item, out)
+        if _orphaned():  # the batch is gone: write nothing it would not list
+            os._exit(1)
+        (out / "thumbs").mkdir(parents=True, exist_ok=True)
+        write_files(files)
+        names = [str(p.relative_to(out)) for p in files]
+        thumb = f"thumbs/{item.name}.png"
+        entry.update(
+            status="done",
+            files=[n for n in names if n != thumb],
+            thumbnail=thumb,
+            checksums={
+                str(p.relative_to(out)): {"bytes": len(d), "sha256": hashlib.sha256(d).hexdigest()}
+                for p, d in files.items()
+            },
+            **numbers,
+        )
+    except OrbvizError as error:
+        entry.update(status="failed", error=str(error), files=[])
+    except MemoryError:
+        entry.update(status="failed", error="out of memory: use a smaller grid or image", files=[])
+    except Exception as error:  # noqa: BLE001 - one bad item must not stop the set
+        entry.update(status="failed", error=f"{type(error).__name__}: {error}", files=[])
+    entry["seconds"] = round(time.perf_counter() - start, 3)
+    return entry
+
+
+def _item_bytes(item: Item) -> int:
+    """Peak memory estimate of one item in a worker (imports, field, surface, images)."""
+    from orbviz.levels.grid import estimate_bytes
+
+    w, h = item.figure.pixels
+    return _WORKER_BASE_BYTES + estimate_bytes(item.figure.grid) + 40 * w * h
+
+
+def plan_jobs(items: list[Item], jobs: int | None) -> tuple[int, str | None]:
+    """Workers for a local pool: as asked, capped by cores and by available memory.
+
+    Returns the count and a note when it was capped.
+    """
+    from orbviz.levels.grid import available_bytes
+
+    cores = os.cpu_count() or 1
+    asked = jobs or cores
+    per_worker = max(_item_bytes(i) for i in items)
+    by_memory = max(1, int(0.8 * available_bytes() // per_worker))
+    chosen = max(1, min(asked, cores, by_memory, len(items)))
+    if jobs is not None and chosen < jobs:
+        why = "cores" if chosen == min(cores, len(items)) and cores < by_memory else "memory"
+        limit = (
+            f"{cores} cores" if why == "cores" else f"about {per_worker / 2**30:.1f} GiB a worker"
+        )
+        return chosen, f"using {chosen} workers, not {jobs}: {limit}"
+    return chosen, None
+
+
+def _pool(jobs: int) -> cf.Executor:
+    import multiprocessing
+
+    return cf.ProcessPoolExecutor(
+        max_workers=jobs,
+        mp_context=multiprocessing.get_context("spawn"),
+        initializer=_die_with_parent,
+        initargs=(os.getpid(),),
+    )
+
+
+def _failed(item: Item, error: BaseException) -> dict[str, Any]:
+    return {
+        "name": item.name,
+        "spec": item.spec,
+        "status": "failed",
+        "error": f"{type(error).__name__}: {error}",
+        "files": [],
+        "hash": item.digest,
+    }
+
+
+def run_scene(
+    items: list[Item],
+    out_dir: str | os.PathLike[str],
+    /,
+    *,
+    executor: cf.Executor | None = None,
+    jobs: int | None = None,
+    force: bool = False,
+    progress: bool = True,
+    title: str = "orbviz scene",
+    note: Callable[[str], None] | None = None,
+) -> dict[str, Any]:
+    """Run every item; keep ``out_dir/manifest.json`` current; write ``out_dir/index.html``.
+
+    Parameters
+    ----------
+    items : list of Item
+        From :func:`orbviz.scenes.load.load_scene` (``.items``).
+    out_dir : path-like
+        Output folder (created if missing). Another batch writing into it is refused.
+    executor : concurrent.futures.Executor, optional
+        Where items run; default a process pool of spawned workers, sized by ``jobs``, cores
+        and memory. A process pool passed in should spawn its workers too
+        (``mp_context=get_context("spawn")``): a forked pool made after VTK or numexpr started
+        threads in the parent can hang.
+    jobs : int, optional
+        Workers of the default pool (default: one per core, fewer if memory is short).
+    force : bool, default: False
+        Redo items even if unchanged.
+    progress : bool, default: True
+        Show a progress bar with item names and an ETA on stderr.
+    title : str
+        Heading of the contact sheet.
+    note : callable, optional
+        Receives remarks for the user (a capped worker count).
+
+    Returns
+    -------
+    dict
+        The manifest: ``{"title", "items": [entry, ...]}`` in scene order.
+    """
+    out = Path(out_dir)
+    if out.exists() and not out.is_dir():
+        raise OutputError(f"cannot write into {str(out)!r}: it exists and is not a folder")
+    (out / "thumbs").mkdir(parents=True, exist_ok=True)
+    with folder_lock(out):
+        return _run_locked(items, out, executor, jobs, force, progress, title, note)
+
+
+def _run_locked(
+    items: list[Item],
+    out: Path,
+    executor: cf.Executor | None,
+    jobs: int | None,
+    force: bool,
+    progress: bool,
+    title: str,
+    note: Callable[[str], None] | None,
+) -> dict[str, Any]:
+    before = previous(out)
+    entries: dict[str, dict[str, Any]] = {}
+    todo = []
+    for item in items:
+        old = before.get(item.name)
+        if not force and unchanged(old, item.digest, out):
+            assert old is not None
+            entries[item.name] = {**old, "status": "skipped"}
+        else:
+            todo.append(item)
+    manifest: dict[str, Any] = {"title": title, "items": []}
+
+    def save() -> None:
+        manifest["items"] = [entries[i.name] for i in items if i.name in entries]
+        write_manifest(out, manifest)
+
+    save()
+    if todo:
+        _run_items(todo, out, executor, jobs, progress, entries, save, note)
+    save()
+    write_contact_sheet(out, manifest)
+    return manifest
+
+
+def _run_items(
+    todo: list[Item],
+    out: Path,
+    executor: cf.Executor | None,
+    jobs: int | None,
+    progress: bool,
+    entries: dict[str, dict[str, Any]],
+    save: Callable[[], None],
+    note: Callable[[str], None] | None,
+) -> None:
+    pool = executor
+    if pool is None:
+        count, remark = plan_jobs(todo, jobs)
+        if remark and note:
+            note(remark)
+        pool = _pool(count)
+    bar = None
+    if progress:
+        from tqdm import tqdm
+
+        bar = tqdm(total=len(todo), unit="item", desc="orbviz batch", dynamic_ncols=True)
+    futures: dict[cf.Future[dict[str, Any]], Item] = {}
+    try:
+        futures = {pool.submit(run_item, item, str(out)): item for item in todo}
+        for future in cf.as_completed(futures):
+            item = futures[future]
+            try:
+                entries[item.name] = future.result()
+            except Exception as error:  # noqa: BLE001 - a lost worker fails its item only
+                entries[item.name] = _failed(item, error)
+            save()
+            if bar is not None:
+                bar.set_postfix_str(item.name)
+                bar.update()
+    except BaseException:
+        if executor is None:  # interrupted: stop the workers now, not after their items
+            for process in list(getattr(pool, "_processes", {}).values()):
+                process.terminate()
+        raise
+    finally:
+        if bar is not None:
+            bar.close()
+        if executor is None:
+            pool.shutdown(wait=True, cancel_futures=True)

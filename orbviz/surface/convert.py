@@ -1,0 +1,114 @@
+"""The bodies as trimesh and PyVista objects: one named geometry per body, materials complete.
+
+A real state's bodies each get a matte PBR material in their phase colour; a complex state's
+surface gets per-vertex phase colours under a matte white material (glTF's default material is
+fully metallic, which viewers show as dark metal). The writers in :mod:`orbviz.export` build on
+these, and :meth:`orbviz.surface.mesh.OrbitalMesh.to_trimesh` returns them.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+from typing import Any
+
+import numpy as np
+
+from orbviz.surface.contour import Body
+
+__all__ = ["body_trimesh", "combined_trimesh", "pyvista_blocks", "trimesh_scene"]
+
+_ROUGHNESS = 0.6
+
+
+def _material(name: str, rgba: Sequence[int]) -> Any:
+    from trimesh.visual.material import PBRMaterial
+
+    return PBRMaterial(
+        name=name,
+        baseColorFactor=[int(v) for v in rgba],
+        metallicFactor=0.0,
+        roughnessFactor=_ROUGHNESS,
+        doubleSided=False,
+    )
+
+
+def body_trimesh(body: Body, scale: float = 1.0, *, white_under_colours: bool = True) -> Any:
+    """One body as a ``trimesh.Trimesh``: a named phase material, or vertex colours under white.
+
+    With ``white_under_colours`` off, vertex colours come without any material (what OBJ's
+    ``v x y z r g b`` lines carry).
+    """
+    import trimesh
+    from trimesh.visual import ColorVisuals, TextureVisuals
+
+    mesh = trimesh.Trimesh(
+        vertices=body.vertices * scale,
+        faces=body.faces,
+        vertex_normals=body.normals if len(body.normals) else None,
+        process=False,
+    )
+    uniform = len(body.colors) and bool(np.all(body.colors == body.colors[0]))
+    if not uniform and not white_under_colours:
+        mesh.visual = ColorVisuals(mesh, vertex_colors=body.colors)
+        return mesh
+    colour = body.colors[0] if uniform else (255, 255, 255, 255)
+    mesh.visual = TextureVisuals(material=_material(body.name, colour))
+    if not uniform and len(body.colors):
+        mesh.visual.vertex_attributes["color"] = body.colors
+    return mesh
+
+
+def trimesh_scene(
+    bodies: Sequence[Body],
+    scale: float = 1.0,
+    *,
+    prefix: str = "",
+    white_under_colours: bool = True,
+) -> Any:
+    """All bodies in one ``trimesh.Scene``, each a named geometry and node (``prefix`` + name)."""
+    import trimesh
+
+    scene = trimesh.Scene()
+    for body in bodies:
+        name = f"{prefix}{body.name}"
+        mesh = body_trimesh(body, scale, white_under_colours=white_under_colours)
+        scene.add_geometry(mesh, geom_name=name, node_name=name)
+    return scene
+
+
+def combined_trimesh(bodies: Sequence[Body], scale: float = 1.0) -> Any:
+    """All bodies as one trimesh, with vertex colours and per-vertex ``phase`` and ``body``."""
+    import trimesh
+
+    offsets = np.cumsum([0] + [len(b.vertices) for b in bodies])
+    mesh = trimesh.Trimesh(
+        vertices=np.vstack([b.vertices for b in bodies]) * scale,
+        faces=np.vstack([b.faces + o for b, o in zip(bodies, offsets, strict=False)]),
+        vertex_normals=np.vstack([b.normals for b in bodies]),
+        vertex_colors=np.vstack([b.colors for b in bodies]),
+        process=False,
+    )
+    mesh.vertex_attributes["phase"] = np.concatenate([b.phase for b in bodies]).astype(np.float32)
+    mesh.vertex_attributes["body"] = np.concatenate(
+        [np.full(len(b.vertices), i, dtype=np.uint8) for i, b in enumerate(bodies)]
+    )
+    return mesh
+
+
+def pyvista_blocks(bodies: Sequence[Body]) -> Any:
+    """Return a ``pyvista.MultiBlock``: one PolyData per body, normals active.
+
+    Each carries the point arrays ``Normals``, ``RGBA`` and ``phase``.
+    """
+    import pyvista
+
+    blocks = pyvista.MultiBlock()
+    for body in bodies:
+        cells = np.hstack([np.full((len(body.faces), 1), 3), body.faces]).ravel()
+        poly = pyvista.PolyData(body.vertices, cells)
+        poly.point_data["Normals"] = body.normals
+        poly.point_data["RGBA"] = body.colors
+        poly.point_data["phase"] = body.phase
+        poly.point_data.active_normals_name = "Normals"
+        blocks.append(poly, body.name)
+    return blocks
