@@ -176,6 +176,6 @@ def test_mesh_notes_a_grid_too_coarse_for_thin_shells(capsys, tmp_path):
     # 12s at the default grid: see tests/test_mesh.py for the vertex levels behind the note
     status, out, err = _run(capsys, "mesh", "12s", "-o", str(tmp_path / "a.stl"))
     assert status == 0 and out.startswith("wrote ")
-    assert err.startswith("orbviz: note: the thinnest shell is") and "--grid" in err
+    assert err.startswith("orbviz: note: the thinnest shell is") and "use a grid of" in err
     status, _, err = _run(capsys, "mesh", "3s", "-o", str(tmp_path / "b.stl"))
     assert status == 0 and err == ""

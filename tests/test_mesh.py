@@ -246,7 +246,7 @@ def test_coarse_grid_note_and_its_advice_12s():
     orbital = Orbital.from_spec("12s")
     coarse = build_mesh(orbital)
     assert coarse.notes and "thinnest shell" in coarse.notes[0]
-    advised = int(re.search(r"--grid (\d+)", coarse.notes[0]).group(1))
+    advised = int(re.search(r"grid of (\d+)", coarse.notes[0]).group(1))
     fine = build_mesh(orbital, MeshOptions(grid=advised))
     assert fine.notes == []
     for result, ok in ((coarse, False), (fine, True)):

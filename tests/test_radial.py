@@ -18,7 +18,7 @@ from orbviz.states.radial import (
     radial_function,
     radial_node_radii,
 )
-from tests.conftest import reference_radial
+from tests.conftest import reference_psi, reference_radial
 
 # Textbook closed forms with a0 = 1 (e.g. Griffiths, Introduction to Quantum Mechanics, table of
 # hydrogen radial wavefunctions -- from memory; each is also checked against sympy below).
@@ -172,3 +172,46 @@ def test_node_radii(n, l, expected, Z):
 def test_most_probable_radius_nodeless(n, Z):
     # nodeless state l = n - 1: most probable radius n^2 / Z (REFERENCES.md)
     assert most_probable_radius(n, n - 1, Z=Z) == pytest.approx(n * n / Z, rel=1e-7)
+
+
+@pytest.mark.parametrize(
+    ("n", "l"), [(1, 0), (3, 2), (10, 0), (40, 0), (70, 3), (100, 0), (100, 99)]
+)
+def test_extent_leaves_less_than_its_tail_outside(n, l):
+    # the probability beyond radial_extent, integrated by scipy.integrate.quad over the scipy
+    # reference R_nl (eval_genlaguerre with an integer degree, tests/conftest.py); beyond the
+    # outer turning point n^2 (1 + sqrt(1 - l(l+1)/n^2)) the integrand no longer oscillates
+    from scipy.integrate import quad
+
+    from orbviz.states.radial import radial_extent
+
+    edge = radial_extent(n, l, tail=1e-10)
+    assert edge > n * n + n * math.sqrt(n * n - l * (l + 1))  # beyond the turning point
+    outside, _ = quad(lambda r: (r * reference_radial(n, l, np.array([r]))[0]) ** 2, edge, np.inf)
+    assert outside < 1e-10
+
+
+@pytest.mark.parametrize(("n", "l", "m"), [(33, 32, 0), (80, 79, 3), (100, 99, -5)])
+def test_psi_at_high_l_and_large_r(n, l, m):
+    # psi of a real orbital of high l far out, where r^l alone overflows float64: against the
+    # scipy reference (eval_genlaguerre and sph_harm_y, tests/conftest.py)
+    from orbviz.states.orbital import Orbital
+
+    rng = np.random.default_rng(7)
+    direction = rng.normal(size=(3, 40))
+    direction /= np.linalg.norm(direction, axis=0)
+    r = rng.uniform(0.5, 1.5, size=40) * n * n  # about the most probable radius
+    x, y, z = direction * r
+    got = Orbital.from_spec(f"{n},{l},{m}", real=True).psi(x, y, z, dtype=np.float64)
+    want = reference_psi([(1.0, n, l, m, "real")], x, y, z).real
+    assert np.all(np.isfinite(got))
+    assert got == pytest.approx(want, rel=1e-8, abs=1e-12 * np.abs(want).max())
+
+
+def test_beyond_the_supported_n_is_refused():
+    # the range is decided in orbviz._defaults.LIMITS (docs/limits.md): n <= 100
+    from orbviz.errors import QuantumNumberError
+    from orbviz.states.orbital import Orbital
+
+    with pytest.raises(QuantumNumberError, match="need n <= 100"):
+        Orbital.from_spec("101s")

@@ -220,10 +220,11 @@ class Field:
         (centre,) = self.state.centres
         x, y, z = (a.astype(np.float64, copy=False) for a in (x, y, z))
         rho2 = x * x + y * y
-        r2 = rho2 + z * z
-        radial = centre.orbital.reduced_radial(eig.n, eig.l, np.sqrt(r2), dtype=np.float64)
+        r = np.sqrt(rho2 + z * z)
+        safe = np.where(r > 0, r, 1.0)  # on unit vectors: no r^l to overflow at high l
         mm = abs(eig.m)
-        return radial * polar_polynomial(eig.l, mm, z, r2) * rho2 ** (mm / 2)
+        angular = polar_polynomial(eig.l, mm, z / safe, 1.0) * (np.sqrt(rho2) / safe) ** mm
+        return centre.orbital.radial(eig.n, eig.l, r) * angular
 
     def value_and_gradient(
         self, points: np.ndarray, step: float = 1e-4

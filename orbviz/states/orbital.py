@@ -26,7 +26,6 @@ from orbviz.states.radial import (
     energy_hartree,
     radial_extent,
     radial_function,
-    radial_function_reduced,
     radial_node_radii,
 )
 from orbviz.states.spec import Atom, is_bond, parse_spec, shorthand_shells, split_element
@@ -332,20 +331,15 @@ class Orbital:
         work = np.dtype(dtype) if dtype is not None else np.result_type(*arrays, np.float32)
         x, y, z = (a.astype(work, copy=False) for a in arrays)
         r = np.sqrt(x * x + y * y + z * z)
+        # R(r) times the harmonic on unit vectors: no r^l, which overflows at high l and large r
+        safe = np.where(r > 0, r, work.type(1))
+        directions = (x / safe, y / safe, z / safe)
         total: np.ndarray | None = None
-        for (n, l), angular in self.shell_angular(x, y, z).items():
-            term = self.reduced_radial(n, l, r, dtype=work) * angular
+        for (n, l), angular in self.shell_angular(*directions).items():
+            term = self.radial(n, l, r).astype(work, copy=False) * angular
             total = term if total is None else total + term
         assert total is not None  # an orbital has at least one term
         return total
-
-    def reduced_radial(self, n: int, l: int, r: np.ndarray, *, dtype: npt.DTypeLike) -> np.ndarray:
-        """R_nl(r) / r^l, the factor of a solid harmonic r^l S_lm (finite at the origin)."""
-        if self.potential is None:
-            return radial_function_reduced(n, l, r, Z=self.length_charge, dtype=dtype)
-        with np.errstate(divide="ignore", invalid="ignore"):
-            values = self.radial(n, l, r) / np.where(r > 0, r, 1.0) ** l
-        return values.astype(dtype, copy=False)
 
     def density(self, x: npt.ArrayLike, y: npt.ArrayLike, z: npt.ArrayLike) -> np.ndarray:
         """Probability density |psi|^2 (bohr^-3) at Cartesian points."""

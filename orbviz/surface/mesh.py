@@ -8,7 +8,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
-from orbviz._defaults import DEFAULTS
+from orbviz._defaults import DEFAULTS, LIMITS
 from orbviz._options import checked
 from orbviz.errors import ParameterError
 from orbviz.levels.fields import field_of
@@ -187,18 +187,38 @@ def build_mesh(
     return OrbitalMesh(bodies, iso, samples, _grid_notes(iso, samples))
 
 
-def _grid_notes(iso: Isovalue, grid: Grid) -> list[str]:
-    """Advise a finer grid where a shell of the surface is under 0.4 cells thick.
+def _advice(need: int) -> str:
+    if need <= LIMITS.grid_max:
+        return f"use a grid of {need} or more"
+    return f"no supported grid (up to {LIMITS.grid_max}) resolves it"
 
-    Measured (docs/meshes.md): 10s at 128^3, thinnest shell 0.45 cells, keeps the 95th
-    percentile vertex level 4% over c; 12s, 0.33 cells, 6%; 15s, 0.22 cells, 9%.
+
+def _grid_notes(iso: Isovalue, grid: Grid) -> list[str]:
+    """Advise a finer grid where the surface has features too thin for it.
+
+    Radial shells: under 0.4 cells thick. Measured (docs/meshes.md): 10s at 128^3, thinnest
+    shell 0.45 cells, keeps the 95th percentile vertex level 4% over c; 12s, 0.33 cells, 6%;
+    15s, 0.22 cells, 9%.
+
+    Angular lobes: a harmonic of degree l changes sign l times over the polar angle, so its
+    lobes are about pi / (l + 1) radians wide; at half the surface's reach that is
+    pi r_max / (2 (l + 1)). Under two cells the lobes break into pieces (80,79,0 at 128^3
+    gave over a thousand).
     """
+    notes = []
     thin = iso.thinnest_shell
-    if thin is None or thin >= 0.4 * grid.spacing:
-        return []
-    need = math.ceil(grid.half_width / thin) + 1  # half a cell across the thinnest shell
-    advice = f"use --grid {need} or more" if need <= 2048 else "no grid up to 2048 resolves it"
-    return [
-        f"the thinnest shell is {thin / grid.spacing:.2f} grid cells thick, so vertex levels "
-        f"may stray beyond +-5% of the isovalue; {advice}"
-    ]
+    if thin is not None and thin < 0.4 * grid.spacing:
+        need = math.ceil(grid.half_width / thin) + 1  # half a cell across the thinnest shell
+        notes.append(
+            f"the thinnest shell is {thin / grid.spacing:.2f} grid cells thick, so vertex levels "
+            f"may stray beyond +-5% of the isovalue; {_advice(need)}"
+        )
+    l_top = max(l for c in grid.field.state.centres for (_, l, _), _ in c.orbital.basis)
+    lobe = math.pi * iso.max_radius / (2 * (l_top + 1))
+    if l_top > 0 and lobe < 2 * grid.spacing:
+        need = math.ceil(2 * grid.half_width / (lobe / 2)) + 1  # two cells across a lobe
+        notes.append(
+            f"the l = {l_top} lobes are about {lobe / grid.spacing:.1f} grid cells wide, so they "
+            f"break into pieces; {_advice(need)}"
+        )
+    return notes

@@ -1,0 +1,126 @@
+"""Every key of a scene file (docs/scenes.md) is checked at load: a bad value anywhere is
+refused before any work, with exit status 2, one line naming the file, the item and the key,
+and nothing written.
+"""
+
+from __future__ import annotations
+
+import pytest
+
+from orbviz.cli import main
+
+# key, a bad value (TOML), the fragment the message must carry after "lab.toml: <item>: "
+COMMON = [
+    ("Z", "-1", "Z: expected a number from 0.001 to 1000"),
+    ("Z", "1e150", "Z: expected a number"),
+    ("real", '"yes please"', "real: expected true or false"),
+    ("fraction", "1.5", "fraction: expected a number from 0.01 to 0.999"),
+    ("grid", '"fine"', "grid: expected a whole number from 16 to 1024"),
+    ("grid", "7", "grid: expected a whole number"),
+    ("colors", '"red,blue"', "colors: expected two hex colours"),
+    ("potential", '"morse:1"', "potential: expected coulomb, yukawa:LENGTH"),
+    ("potential", '"yukawa:0"', "potential: yukawa takes a number from"),
+    ("atom", '"Qq"', "spec: unknown element 'Qq'"),
+    ("atom", "3", "atom: expected an element symbol"),
+    ("outputs", '["gif"]', "outputs: expected a non-empty list"),
+    ("outputs", "[]", "outputs: expected a non-empty list"),
+    ("reduced_mass", "3", "reduced_mass: expected true or false"),
+    ("nuclear_mass", "-2", "nuclear_mass: expected a number from 0.00054"),
+    ("fracton", "0.5", "fracton: unknown key"),
+]
+RENDER = [
+    ("size", '"big"', "render.size: expected WIDTHxHEIGHT"),
+    ("size", '"10x10"', "render.size: expected WIDTHxHEIGHT"),
+    ("scale", "100", "render.scale: expected a number from 0.25 to 8"),
+    ("view", '"sideways"', "render.view: expected iso, x, y, z or AZ,EL"),
+    ("transparent", "2", "render.transparent: expected true or false"),
+    ("background", '"neon-ish"', "render.background: expected a colour name or #RRGGBB"),
+    ("axes", '"off-ish"', "render.axes: expected true or false"),
+    ("scale_bar", '"feet"', "render.scale_bar: expected angstrom, bohr or none"),
+    ("title", "3", "render.title: expected text"),
+    ("lighting", '"neon"', "render.lighting: expected soft, studio or flat"),
+    ("nodes", "1.5", "render.nodes: expected true or false"),
+    ("cut", '"third"', "render.cut: expected half, quarter or none"),
+    ("outer", "2", "render.outer: expected a number from 0.01"),
+    ("extent", "-3", "render.extent: expected a number above 0"),
+    ("colour", '"red"', "render.colour: unknown key"),
+]
+MODEL = [
+    ("size", "-5", "model.size: expected a number from 5 to 500 mm"),
+    ("rod", "1000", "model.rod: expected a number"),
+    ("rod", "30", "model.rod: a 30 mm rod would hide a 60 mm model"),
+    ("min_feature", "0", "model.min_feature: expected a number from 0.1 to 10 mm"),
+    ("stand", "4", "model.stand: expected true or false"),
+    ("cut", '"slice"', "model.cut: expected half, quarter or none"),
+    ("split", "true", "model.split: unknown key"),
+]
+
+
+def _run(tmp_path, capsys, text: str) -> str:
+    scene = tmp_path / "lab.toml"
+    scene.write_text(text)
+    out = tmp_path / "out"
+    status = main(["batch", str(scene), "-o", str(out), "--no-progress"])
+    err = capsys.readouterr().err
+    assert status == 2 and err.count("\n") == 1 and err.startswith("orbviz: error: lab.toml: ")
+    assert not out.exists()  # refused at load: nothing written
+    return err
+
+
+@pytest.mark.parametrize(("key", "value", "fragment"), COMMON)
+def test_item_keys(tmp_path, capsys, key, value, fragment):
+    err = _run(tmp_path, capsys, f'[[orbital]]\nspec = "2pz"\n{key} = {value}\n')
+    assert f"lab.toml: orbital 1 ('2pz'): {fragment}" in err
+
+
+@pytest.mark.parametrize(("key", "value", "fragment"), COMMON)
+def test_default_keys(tmp_path, capsys, key, value, fragment):
+    err = _run(tmp_path, capsys, f'[defaults]\n{key} = {value}\n[[orbital]]\nspec = "2pz"\n')
+    assert f"lab.toml: [defaults]: {fragment}" in err
+
+
+@pytest.mark.parametrize(("key", "value", "fragment"), RENDER)
+def test_render_keys(tmp_path, capsys, key, value, fragment):
+    err = _run(tmp_path, capsys, f'[[orbital]]\nspec = "2pz"\nrender = {{ {key} = {value} }}\n')
+    assert f"lab.toml: orbital 1 ('2pz'): {fragment}" in err
+
+
+@pytest.mark.parametrize(("key", "value", "fragment"), MODEL)
+def test_model_keys(tmp_path, capsys, key, value, fragment):
+    text = f'[[orbital]]\nspec = "2pz"\noutputs = ["model.stl"]\nmodel = {{ {key} = {value} }}\n'
+    err = _run(tmp_path, capsys, text)
+    assert f"lab.toml: orbital 1 ('2pz'): {fragment}" in err
+
+
+@pytest.mark.parametrize(
+    ("text", "fragment"),
+    [
+        ('title = 3\n[[orbital]]\nspec = "1s"\n', "lab.toml: title: expected text"),
+        ("[[orbital]]\nspec = 3\n", "lab.toml: orbital 1: spec: expected spec text"),
+        ('[[orbital]]\nspec = "2pq"\n', "lab.toml: orbital 1 ('2pq'): spec: expected an orbital"),
+        ('[[orbital]]\nspec = "2pz"\nname = "../x"\n', "lab.toml: orbital 1 ('2pz'): name:"),
+        ("[[shells]]\nn = 13\n", "lab.toml: shells 1: n: expected whole numbers 1..12"),
+        ("[[shells]]\nn = [1, true]\n", "lab.toml: shells 1: n: expected whole numbers"),
+        ("orbital = [1, 2]\n", "lab.toml: orbital 1: expected a table"),
+        ("[defaults]\nrender = 3\n[[orbital]]\nspec = '1s'\n", "lab.toml: [defaults]: render:"),
+        ("[[orbital]]\nspec = '2pz'\n[[orbital]]\nspec = '2PZ'\n", "both write"),
+        (
+            "[[orbital]]\nspec = '1s'\nname = 'x'\noutputs = ['model.stl']\n"
+            "[[orbital]]\nspec = '2pz'\nname = 'x-model'\noutputs = ['stl']\n",
+            "both write 'x-model.stl'",
+        ),
+        ("x = " + "[" * 5000 + "]" * 5000 + "\n", "lab.toml: not"),
+    ],
+)
+def test_structure(tmp_path, capsys, text, fragment):
+    assert fragment in _run(tmp_path, capsys, text)
+
+
+def test_not_utf8_and_a_folder(tmp_path, capsys):
+    scene = tmp_path / "lab.toml"
+    scene.write_bytes(b'[[orbital]]\nspec = "2pz"\ntitle = "\xff\xfe"\n')
+    assert main(["batch", str(scene), "-o", str(tmp_path / "out")]) == 2
+    assert "lab.toml: not UTF-8 text" in capsys.readouterr().err
+    assert main(["batch", str(tmp_path), "-o", str(tmp_path / "out")]) == 2
+    assert "it is a folder" in capsys.readouterr().err
+    assert not (tmp_path / "out").exists()
