@@ -174,60 +174,57 @@ def parse_spec(spec: str, /) -> list[Atom]:
     if not text:
         raise SpecError("empty orbital spec; try e.g. 2pz, 3dx2-y2, 4,2,-1 or 0.6*2s+0.8*2pz")
     pos, atoms = 0, []
-    while True:
-        while pos < len(text) and text[pos].isspace():
-            pos += 1
-        sign = 1.0
-        sign_match = _SIGN.match(text, pos)
-        if sign_match:
-            sign = -1.0 if sign_match.group() == "-" else 1.0
-            pos = sign_match.end()
-            while pos < len(text) and text[pos].isspace():
-                pos += 1
-        elif atoms:
-            raise SpecError(f"expected '+' or '-' at position {pos} of {spec!r}")
-        coef = 1.0 + 0j
-        coef_match = _COEF.match(text, pos)
-        if coef_match:
-            coef = _coefficient(coef_match, spec)
-            pos = coef_match.end()
-            while pos < len(text) and text[pos].isspace():
-                pos += 1
-        state = _STATE_HYBRID.match(text, pos)
-        if state:
-            from orbviz.states.hybrids import hybrid_terms
+    while pos < len(text):
+        weight, pos = _weight(text, _skip(text, pos), spec, first=not atoms)
+        terms, pos = _state(text, pos, spec)
+        atoms += [Atom(a.n, a.l, a.m, a.form, weight * a.coefficient) for a in terms]
+        pos = _skip(text, pos)
+    return atoms
 
-            n = int(state.group("n"))
-            for l, m, weight in hybrid_terms(n, state.group("name").lower(), int(state.group("k"))):
-                atoms.append(Atom(n, l, m, "real", sign * coef * weight))
-            pos = state.end()
-            while pos < len(text) and text[pos].isspace():
-                pos += 1
-            if pos >= len(text):
-                return atoms
-            continue
-        state = _STATE_NLM.match(text, pos)
-        if state:
-            atom = Atom(
-                _integer(state.group("n"), "n", spec),
-                _integer(state.group("l"), "l", spec),
-                _integer(state.group("m"), "m", spec),
-                "complex",
-                sign * coef,
-            )
-        else:
-            state = _STATE_LABEL.match(text, pos)
-            if not state:
-                rest = text[pos : pos + 12] or "end of text"
-                raise SpecError(
-                    f"expected an orbital such as 2pz or 4,2,-1 at position {pos} of {spec!r} "
-                    f"(found {rest!r})"
-                )
-            l, m = LABELS[state.group("label").lower()]
-            atom = Atom(int(state.group("n")), l, m, "real", sign * coef)
-        atoms.append(atom)
-        pos = state.end()
-        while pos < len(text) and text[pos].isspace():
-            pos += 1
-        if pos >= len(text):
-            return atoms
+
+def _skip(text: str, pos: int) -> int:
+    """Return the position of the next character that is not whitespace."""
+    while pos < len(text) and text[pos].isspace():
+        pos += 1
+    return pos
+
+
+def _weight(text: str, pos: int, spec: str, *, first: bool) -> tuple[complex, int]:
+    """Read a term's sign and coefficient; return the weight and the position after them."""
+    sign = 1.0
+    sign_match = _SIGN.match(text, pos)
+    if sign_match:
+        sign = -1.0 if sign_match.group() == "-" else 1.0
+        pos = _skip(text, sign_match.end())
+    elif not first:
+        raise SpecError(f"expected '+' or '-' at position {pos} of {spec!r}")
+    coef = 1.0 + 0j
+    coef_match = _COEF.match(text, pos)
+    if coef_match:
+        coef = _coefficient(coef_match, spec)
+        pos = _skip(text, coef_match.end())
+    return sign * coef, pos
+
+
+def _state(text: str, pos: int, spec: str) -> tuple[list[Atom], int]:
+    """Read one state (a hybrid, n,l,m or a label) with unit weight; return it and the end."""
+    hybrid = _STATE_HYBRID.match(text, pos)
+    if hybrid:
+        from orbviz.states.hybrids import hybrid_terms
+
+        n = int(hybrid.group("n"))
+        terms = hybrid_terms(n, hybrid.group("name").lower(), int(hybrid.group("k")))
+        return [Atom(n, l, m, "real", weight) for l, m, weight in terms], hybrid.end()
+    nlm = _STATE_NLM.match(text, pos)
+    if nlm:
+        n, l, m = (_integer(nlm.group(k), k, spec) for k in ("n", "l", "m"))
+        return [Atom(n, l, m, "complex", 1.0)], nlm.end()
+    label = _STATE_LABEL.match(text, pos)
+    if not label:
+        rest = text[pos : pos + 12] or "end of text"
+        raise SpecError(
+            f"expected an orbital such as 2pz or 4,2,-1 at position {pos} of {spec!r} "
+            f"(found {rest!r})"
+        )
+    l, m = LABELS[label.group("label").lower()]
+    return [Atom(int(label.group("n")), l, m, "real", 1.0)], label.end()
