@@ -151,9 +151,11 @@ def build(
             listed = ", ".join(key(k) for k in known)
             raise OptionError(key(name), f"unknown option (known: {listed})")
         converted[name] = _convert(name, known[name], raw, key)
-    obj = dataclasses.replace(base, **converted) if base is not None else cls(**converted)
+    obj: Any = cls(**converted)
+    if base is not None:
+        obj = dataclasses.replace(base, **converted)  # type: ignore[type-var]
     _relations(obj, key)
-    return obj
+    return obj  # type: ignore[no-any-return]
 
 
 def checked(obj: T, *, key: Callable[[str], str] = str) -> T:

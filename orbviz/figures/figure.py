@@ -207,7 +207,7 @@ def figure(
     _offscreen()
     import pyvista
 
-    plotter = pyvista.Plotter(off_screen=True, window_size=opts.pixels, lighting="none")
+    plotter = pyvista.Plotter(off_screen=True, window_size=list(opts.pixels), lighting="none")
     fig = Figure(plotter, mesh, opts)
     try:
         add_bodies(fig, mesh.bodies)
@@ -221,7 +221,7 @@ def figure(
         fig.half_height = _frame(fig, vertices, opts.extent)
         plotter.enable_anti_aliasing("msaa", multi_samples=8)
         if opts.axes:
-            plotter.add_axes(
+            plotter.add_axes(  # type: ignore[call-arg]
                 line_width=3, labels_off=False, color="black", viewport=(0, 0, 0.16, 0.2)
             )
     except BaseException:

@@ -252,6 +252,7 @@ def sample(
         _check_memory(points, shape)
         values = np.empty(shape, dtype=np.float32, order="F")
         _fill(field, held, values)
+        assert surface is not None  # a window is only taken for a surface
         if _faces_clear(values, math.sqrt(surface.level)):
             return Grid(values, float(half_width), field, start)
         del values

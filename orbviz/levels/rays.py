@@ -100,7 +100,9 @@ class RayQuadrature:
             psi = self.state.psi(np.outer(x, r), np.outer(y, r), np.outer(z, r), dtype=np.float64)
         else:
             angular = self.state.centres[0].orbital.shell_angular(x, y, z)
-            psi = sum(np.outer(ang, self._radial[key]) for key, ang in angular.items())
+            psi = np.zeros((x.size, r.size), dtype=np.result_type(*angular.values()))
+            for key, ang in angular.items():
+                psi += np.outer(ang, self._radial[key])
         return psi * psi if self.state.is_real else np.abs(psi) ** 2
 
     def _accumulate(

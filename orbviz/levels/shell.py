@@ -130,4 +130,5 @@ class ShellQuadrature:
             need = np.where(angular > 0, level / angular, np.inf)
         count = np.searchsorted(-suffix, -need, side="right")
         far = np.where(count > 0, self.radii[np.maximum(count - 1, 0)], 0.0)
-        return tuple(float(np.max(far * np.abs(u))) for u in (ux, uy, uz))
+        reach_x, reach_y, reach_z = (float(np.max(far * np.abs(u))) for u in (ux, uy, uz))
+        return reach_x, reach_y, reach_z

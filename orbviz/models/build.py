@@ -233,9 +233,10 @@ def build_model(
     if isinstance(state, (list, tuple)):
         bodies, meshes = _set_bodies(state, opts, fraction)
     else:
+        one: State = state  # type: ignore[assignment]  # not a sequence: one state
         mesh = mesh or build_mesh(
-            state, MeshOptions(grid=opts.grid, colors=opts.colors), fraction=fraction
-        )  # type: ignore[arg-type]
+            one, MeshOptions(grid=opts.grid, colors=opts.colors), fraction=fraction
+        )
         bodies, meshes = mesh.bodies, [mesh]
     size = opts.size_mm
     scale = size / float(np.ptp(np.vstack([b.vertices for b in bodies]), axis=0).max())

@@ -149,7 +149,12 @@ class Bond:
 
     # ----------------------------------------------------------------- evaluation
     def psi(
-        self, x: npt.ArrayLike, y: npt.ArrayLike, z: npt.ArrayLike, *, dtype: npt.DTypeLike = None
+        self,
+        x: npt.ArrayLike,
+        y: npt.ArrayLike,
+        z: npt.ArrayLike,
+        *,
+        dtype: npt.DTypeLike | None = None,
     ) -> np.ndarray:
         """Evaluate psi at Cartesian points (bohr); the nuclei's midpoint is the origin."""
         z = np.asarray(z)

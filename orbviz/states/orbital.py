@@ -310,7 +310,12 @@ class Orbital:
         return out
 
     def psi(
-        self, x: npt.ArrayLike, y: npt.ArrayLike, z: npt.ArrayLike, *, dtype: npt.DTypeLike = None
+        self,
+        x: npt.ArrayLike,
+        y: npt.ArrayLike,
+        z: npt.ArrayLike,
+        *,
+        dtype: npt.DTypeLike | None = None,
     ) -> np.ndarray:
         """Wavefunction at Cartesian points (bohr).
 

@@ -173,7 +173,7 @@ def parse_spec(spec: str, /) -> list[Atom]:
         raise SpecError(f"spec text is {len(text)} characters long; at most {LIMITS.spec_chars}")
     if not text:
         raise SpecError("empty orbital spec; try e.g. 2pz, 3dx2-y2, 4,2,-1 or 0.6*2s+0.8*2pz")
-    pos, atoms = 0, []
+    pos, atoms = 0, list[Atom]()
     while pos < len(text):
         weight, pos = _weight(text, _skip(text, pos), spec, first=not atoms)
         terms, pos = _state(text, pos, spec)

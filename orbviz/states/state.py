@@ -146,7 +146,12 @@ class State(Protocol):
         ...
 
     def psi(
-        self, x: npt.ArrayLike, y: npt.ArrayLike, z: npt.ArrayLike, *, dtype: npt.DTypeLike = None
+        self,
+        x: npt.ArrayLike,
+        y: npt.ArrayLike,
+        z: npt.ArrayLike,
+        *,
+        dtype: npt.DTypeLike | None = None,
     ) -> np.ndarray:
         """Psi at Cartesian points (bohr); float32 stays float32."""
         ...
