@@ -21,7 +21,8 @@ def reference_radial(n: int, l: int, r: np.ndarray, Z: float = 1.0) -> np.ndarra
 def reference_real_harmonic(l: int, m: int, polar, azimuth) -> np.ndarray:
     """Real harmonics from scipy's complex ones with the chemistry sign convention.
 
-    Source: ../shared/REFERENCES.md (m > 0: sqrt2 (-1)^m Re Y_l^m; m < 0: sqrt2 (-1)^m Im Y_l^|m|).
+    Source: tables of real spherical harmonics (Blanco, Florez & Bermejo 1997, from memory;
+    docs/references.md) (m > 0: sqrt2 (-1)^m Re Y_l^m; m < 0: sqrt2 (-1)^m Im Y_l^|m|).
     """
     if m == 0:
         return np.real(sph_harm_y(l, 0, polar, azimuth))

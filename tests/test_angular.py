@@ -36,7 +36,7 @@ def test_real_against_scipy_combination(l, rng):
 
 
 # Cartesian shapes of the real orbitals with the chemistry signs (tables of real spherical
-# harmonics, e.g. Blanco, Florez & Bermejo 1997 -- from memory; REFERENCES.md lists the signs)
+# harmonics, e.g. Blanco, Florez & Bermejo 1997 -- from memory; docs/references.md lists the signs)
 CARTESIAN = {
     "s": lambda x, y, z: np.ones_like(x),
     "px": lambda x, y, z: x,
@@ -107,7 +107,8 @@ def _sign_changes(values: np.ndarray) -> int:
 
 @pytest.mark.parametrize(("l", "m"), [(l, m) for l in range(6) for m in range(-l, l + 1)])
 def test_angular_node_count_from_sign_changes(l, m):
-    # l nodal surfaces (REFERENCES.md): l - |m| cones or planes crossed along a meridian, and
+    # l nodal surfaces (Bethe & Salpeter 1957; docs/references.md): l - |m| cones or planes
+    # crossed along a meridian, and
     # |m| planes through the z axis, each crossed twice around a circle of latitude
     offset = 0.0 if m >= 0 else math.pi / (2 * abs(m))
     polar = np.linspace(1e-4, math.pi - 1e-4, 20_001)

@@ -47,7 +47,8 @@ def test_info_json_eigenstate(capsys):
     assert info["energy_ev"] == pytest.approx(-4 / 18 * hartree_ev, rel=1e-12)
     assert info["degeneracy"] == 9
     assert info["radial_nodes"] == 2 and info["angular_nodes"] == 0
-    # 3s node radii (9 -+ 3 sqrt3)/(2Z) and <r> = [3n^2 - l(l+1)]/2Z (REFERENCES.md)
+    # 3s node radii (9 -+ 3 sqrt3)/(2Z) and <r> = [3n^2 - l(l+1)]/2Z
+    # (Bethe & Salpeter 1957; docs/references.md)
     assert info["radial_node_radii_bohr"] == pytest.approx(
         [(9 - 3 * math.sqrt(3)) / 4, (9 + 3 * math.sqrt(3)) / 4], rel=1e-12
     )

@@ -24,12 +24,13 @@ from tests.conftest import (
 
 
 def _p_1s(rho: float) -> float:
-    # closed form P(r < R) = 1 - exp(-2 rho) (1 + 2 rho + 2 rho^2), rho = ZR (REFERENCES.md)
+    # closed form P(r < R) = 1 - exp(-2 rho) (1 + 2 rho + 2 rho^2), rho = ZR (the 1s closed
+    # form integrated, Bethe & Salpeter 1957; docs/references.md)
     return 1.0 - math.exp(-2 * rho) * (1 + 2 * rho + 2 * rho * rho)
 
 
 def test_1s_ninety_percent_radius():
-    # the textbook 90% boundary of hydrogen 1s at rho ~ 2.661 (REFERENCES.md, common practice)
+    # the textbook 90% boundary of hydrogen 1s at rho ~ 2.661 (common practice, no source)
     rho = brentq(lambda p: _p_1s(p) - 0.9, 0.1, 10)
     assert rho == pytest.approx(2.661, abs=1e-3)
 

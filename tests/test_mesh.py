@@ -192,7 +192,8 @@ def test_in_box_probability_and_clearance(meshes):
 
 def test_report_carries_the_checked_level_1s(meshes):
     # the report's level check (a finer quadrature, added when the report is asked for) against
-    # the closed form P(r < R) = 1 - exp(-2R)(1 + 2R + 2R^2) at the level's radius (REFERENCES.md)
+    # the closed form P(r < R) = 1 - exp(-2R)(1 + 2R + 2R^2) at the level's radius
+    # (Bethe & Salpeter 1957; docs/references.md)
     report = meshes["1s"].report()
     radius = -0.5 * math.log(report["isovalue"] * math.pi)
     closed = 1 - math.exp(-2 * radius) * (1 + 2 * radius + 2 * radius**2)

@@ -19,7 +19,7 @@ HYDROGEN = [(n, l) for n in range(1, 6) for l in range(n)]
 @pytest.mark.parametrize("Z", [1.0, 2.0])
 def test_hydrogen_energies_radii_and_functions(n, l, Z):
     s = solve_radial(Coulomb(Z), n, l)
-    # E_n = -Z^2 / (2 n^2) hartree (REFERENCES.md)
+    # E_n = -Z^2 / (2 n^2) hartree (Bethe & Salpeter 1957; docs/references.md)
     assert s.energy == pytest.approx(-(Z**2) / (2 * n * n), rel=1e-6)
     # <r> = [3n^2 - l(l+1)] / (2Z) (Bethe & Salpeter)
     assert s.expectation(1) == pytest.approx((3 * n * n - l * (l + 1)) / (2 * Z), abs=1e-5)
@@ -66,7 +66,8 @@ def test_yukawa_ground_state(delta):
 
 @pytest.mark.parametrize(("n", "l"), [(2, 0), (3, 0), (3, 1), (4, 2)])
 def test_node_counts_in_non_coulomb_potentials(n, l):
-    # n - l - 1 radial nodes, counted on the computed functions (REFERENCES.md)
+    # n - l - 1 radial nodes, counted on the computed functions
+    # (Bethe & Salpeter 1957; docs/references.md)
     for potential in (
         Yukawa(2.0, 20.0),
         Harmonic(0.5),

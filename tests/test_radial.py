@@ -60,7 +60,8 @@ def test_closed_forms_agree_with_sympy(n, l):
     ("n", "l"), [(4, 0), (5, 3), (8, 2), (12, 11), (20, 0), (20, 7), (30, 0), (30, 5), (30, 29)]
 )
 def test_against_sympy_high_n(n, l):
-    # sympy's exact R_nl evaluated with mpmath at 40 digits (REFERENCES.md: use mpmath above n~12)
+    # sympy's exact R_nl evaluated with mpmath at 40 digits (sympy.physics.hydrogen.R_nl; mpmath
+    # above n~12)
     Z = sympy.Rational(3, 2)
     radii = [0.25, 1.5, 6.0, 23.0, 80.0, 300.0]
     ours = radial_function(n, l, np.array(radii), Z=1.5)
@@ -76,7 +77,8 @@ def test_against_sympy_high_n(n, l):
 )
 @pytest.mark.parametrize("Z", [1.0, 2.5])
 def test_normalisation(n, l, Z):
-    # integral of R^2 r^2 dr = 1 (REFERENCES.md), by adaptive quadrature split at the node radii
+    # integral of R^2 r^2 dr = 1 (Bethe & Salpeter 1957; docs/references.md), by adaptive quadrature
+    # split at the node radii
     edges = np.concatenate([[0.0], radial_node_radii(n, l, Z=Z), [4.0 * n * n / Z, np.inf]])
     total = 0.0
     for a, b in zip(edges[:-1], edges[1:], strict=True):
@@ -112,7 +114,7 @@ def test_energy_against_codata(n, Z):
     )
 
 
-POWERS = {  # closed forms: Bethe & Salpeter (1957), as listed in ../shared/REFERENCES.md
+POWERS = {  # closed forms: Bethe & Salpeter (1957), as listed in docs/references.md
     1: lambda n, l, Z: (3 * n**2 - l * (l + 1)) / (2 * Z),
     2: lambda n, l, Z: n**2 * (5 * n**2 + 1 - 3 * l * (l + 1)) / (2 * Z**2),
     -1: lambda n, l, Z: Z / n**2,
@@ -144,7 +146,8 @@ def _sign_changes(values: np.ndarray) -> int:
 
 @pytest.mark.parametrize(("n", "l"), [(1, 0), (2, 0), (3, 0), (3, 1), (4, 2), (6, 1), (10, 3)])
 def test_radial_node_count_from_sign_changes(n, l):
-    # nodal count n - l - 1 (REFERENCES.md), counted on the computed function itself
+    # nodal count n - l - 1 (Bethe & Salpeter 1957; docs/references.md), counted on the computed
+    # function itself
     r = np.linspace(1e-6, 6.0 * n * n, 200_001)
     assert _sign_changes(radial_function(n, l, r)) == n - l - 1
     assert len(radial_node_radii(n, l)) == n - l - 1
@@ -152,7 +155,9 @@ def test_radial_node_count_from_sign_changes(n, l):
 
 @pytest.mark.parametrize(
     ("n", "l", "expected"),
-    [  # closed forms from REFERENCES.md: 2s at 2/Z; 3s at (9 -+ 3 sqrt3)/2Z; 3p at 6/Z
+    # closed forms (Bethe & Salpeter 1957; roots checked with sympy): 2s at 2/Z;
+    # 3s at (9 -+ 3 sqrt3)/2Z; 3p at 6/Z
+    [
         (2, 0, [2.0]),
         (3, 0, [(9 - 3 * math.sqrt(3)) / 2, (9 + 3 * math.sqrt(3)) / 2]),
         (3, 1, [6.0]),
@@ -170,7 +175,8 @@ def test_node_radii(n, l, expected, Z):
 
 @pytest.mark.parametrize(("n", "Z"), [(1, 1.0), (2, 1.0), (3, 2.0), (5, 1.0), (8, 1.5)])
 def test_most_probable_radius_nodeless(n, Z):
-    # nodeless state l = n - 1: most probable radius n^2 / Z (REFERENCES.md)
+    # nodeless state l = n - 1: most probable radius n^2 / Z (Bethe & Salpeter 1957;
+    # docs/references.md)
     assert most_probable_radius(n, n - 1, Z=Z) == pytest.approx(n * n / Z, rel=1e-7)
 
 

@@ -31,7 +31,8 @@ def _render(spec, tmp_path, **options):
 
 
 def _r90_1s() -> float:
-    # closed form: P(r < R) = 1 - e^{-2R}(1 + 2R + 2R^2) for hydrogen 1s (REFERENCES)
+    # closed form: P(r < R) = 1 - e^{-2R}(1 + 2R + 2R^2) for hydrogen 1s (Bethe & Salpeter 1957;
+    # docs/references.md)
     from scipy.optimize import brentq
 
     return brentq(lambda p: 1 - math.exp(-2 * p) * (1 + 2 * p + 2 * p * p) - 0.9, 0.1, 10)
@@ -100,7 +101,8 @@ def test_view_presets_and_bad_view():
 
 
 def test_scale_bar_measured_against_the_1s_sphere(tmp_path):
-    # The 1s 90% surface is a sphere of the closed-form radius r90 (REFERENCES; 2.661 bohr); its
+    # The 1s 90% surface is a sphere of the closed-form radius r90 (Bethe & Salpeter 1957;
+    # docs/references.md: 2.661 bohr); its
     # width in pixels gives pixels per angstrom (CODATA Bohr radius, scipy.constants). The bar
     # then has to be 1, 2 or 5 times a power of ten angstrom long at that scale.
     a0 = physical_constants["Bohr radius"][0] * 1e10
@@ -130,7 +132,8 @@ def test_scale_bar_measured_against_the_1s_sphere(tmp_path):
     ],
 )
 def test_node_overlays_count(spec, radial, angular):
-    # n - l - 1 radial spheres and l angular surfaces (REFERENCES.md); a complex eigenstate's
+    # n - l - 1 radial spheres and l angular surfaces (Bethe & Salpeter 1957; docs/references.md); a
+    # complex eigenstate's
     # |psi| keeps only its l - |m| polar nodes (4,2,1: one cone pair -> 1 surface, the xy plane)
     with _figure(spec, grid=48, nodes=True) as fig:
         assert len(fig.overlays.get("radial_nodes", [])) == radial
@@ -181,7 +184,7 @@ def test_slice_marks_nodes_at_closed_form_radii():
     from orbviz.figures.plots import slice_figure
 
     _, data = slice_figure(Orbital.from_spec("3s"), PlotOptions(plane="xz"), points=801)
-    # closed form (REFERENCES.md): 3s nodes at (9 -+ 3 sqrt3)/2 bohr
+    # closed form (Bethe & Salpeter 1957; docs/references.md): 3s nodes at (9 -+ 3 sqrt3)/2 bohr
     expected = [(9 - 3 * math.sqrt(3)) / 2, (9 + 3 * math.sqrt(3)) / 2]
     assert data.node_radii == pytest.approx(expected, rel=1e-10)
     # and the sampled psi changes sign there along +x
@@ -193,7 +196,8 @@ def test_slice_marks_nodes_at_closed_form_radii():
 
 
 def test_slice_level_ring_is_the_closed_form_1s_radius():
-    # the drawn level of 1s is |psi|^2 = e^{-2r}/pi at r = r90 (closed forms, REFERENCES), so the
+    # the drawn level of 1s is |psi|^2 = e^{-2r}/pi at r = r90 (closed forms, Bethe & Salpeter 1957;
+    # docs/references.md), so the
     # ring where the sampled density crosses it lies at r90
     from orbviz.figures.plots import slice_figure
 
@@ -218,9 +222,9 @@ def test_radial_plot_marks(spec, n, l, nodes):
     assert data.most_probable_radius == pytest.approx(
         data.r[np.argmax(data.p)], abs=data.r[1] - data.r[0]
     )
-    # node radii from the closed forms (REFERENCES): 2s at 2 bohr, 3p at 6 bohr
+    # node radii from the closed forms (Bethe & Salpeter 1957): 2s at 2 bohr, 3p at 6 bohr
     assert data.node_radii == pytest.approx(nodes, rel=1e-10)
-    if l == n - 1:  # nodeless: most probable radius n^2 (REFERENCES)
+    if l == n - 1:  # nodeless: most probable radius n^2 (Bethe & Salpeter 1957; docs/references.md)
         assert data.most_probable_radius == pytest.approx(n * n, rel=1e-7)
 
 
