@@ -15,7 +15,6 @@ from scipy.constants import physical_constants
 from orbviz.cli import main
 from orbviz.export import write_bodies
 from orbviz.states.orbital import Orbital
-from orbviz.surface.colors import DEFAULT_PAIR
 from orbviz.surface.mesh import build_mesh
 from orbviz.surface.options import MeshOptions
 from tests.conftest import gltf_validator_dir
@@ -190,9 +189,78 @@ def test_3mf_round_trip_lib3mf(real_mesh, tmp_path):
         assert closed
 
 
-def test_default_colours_are_okabe_ito_blue_and_vermillion():
-    # Okabe & Ito (2008) palette: blue #0072B2, vermillion #D55E00
-    assert DEFAULT_PAIR[0][:3] == (0x00, 0x72, 0xB2) and DEFAULT_PAIR[1][:3] == (0xD5, 0x5E, 0x00)
+def test_default_phase_colours_in_the_file_are_okabe_ito(real_mesh, tmp_path):
+    # the written materials carry the published Okabe & Ito (2008) blue #0072B2 and vermillion
+    # #D55E00, read back by trimesh from the GLB
+    import trimesh
+
+    write_bodies(real_mesh.bodies, tmp_path / "c.glb")
+    scene = trimesh.load(tmp_path / "c.glb", process=False)
+    colour = {n: tuple(g.visual.material.baseColorFactor[:3]) for n, g in scene.geometry.items()}
+    assert colour == {"positive": (0x00, 0x72, 0xB2), "negative": (0xD5, 0x5E, 0x00)}
+
+
+def _read_back(path: Path) -> tuple[np.ndarray, str | None]:
+    """Vertices of a written file by an independent reader, and the unit it declares, if any."""
+    suffix = path.suffix
+    if suffix == ".stl":
+        from stl import mesh as stl_mesh  # numpy-stl
+
+        return stl_mesh.Mesh.from_file(str(path)).vectors.reshape(-1, 3).astype(float), None
+    if suffix in (".ply", ".obj"):
+        import meshio
+
+        header = path.read_text(errors="replace").splitlines()[0] if suffix == ".obj" else ""
+        return np.asarray(meshio.read(path).points, dtype=float), header or None
+    if suffix in (".glb", ".gltf"):
+        import trimesh
+
+        scene = trimesh.load(path, process=False)
+        vertices = np.vstack([g.vertices for g in scene.geometry.values()])
+        return vertices, _gltf_unit(path)
+    import lib3mf  # 3MF: the consortium's reference library
+
+    model = lib3mf.get_wrapper().CreateModel()
+    model.QueryReader("3mf").ReadFromFile(str(path))
+    points = []
+    objects = model.GetMeshObjects()
+    while objects.MoveNext():
+        points += [v.Coordinates for v in objects.GetCurrentMeshObject().GetVertices()]
+    unit = model.GetMetaDataGroup().GetMetaDataByKey("orbviz", "length_unit").GetValue()
+    return np.asarray(points, dtype=float), unit
+
+
+def _gltf_unit(path: Path) -> str:
+    data = path.read_bytes()
+    if path.suffix == ".glb":  # 12-byte header, then the JSON chunk: length, type, data
+        length = int.from_bytes(data[12:16], "little")
+        tree = json.loads(data[20 : 20 + length])
+    else:
+        tree = json.loads(data)
+    roots = tree["scenes"][tree.get("scene", 0)]["nodes"]
+    return tree["nodes"][roots[0]]["extras"]["length_unit"]
+
+
+@pytest.mark.parametrize("suffix", [".stl", ".obj", ".glb", ".gltf", ".ply", ".3mf"])
+@pytest.mark.parametrize("units", ["bohr", "angstrom", "pm"])
+def test_every_format_round_trips_coordinates_and_units(real_mesh, tmp_path, suffix, units):
+    # every vertex comes back at its place times the unit's length in bohr (CODATA Bohr radius,
+    # scipy.constants), read by an independent reader, and the file says which unit it uses
+    a0 = physical_constants["Bohr radius"][0]
+    scale = {"bohr": 1.0, "angstrom": a0 / 1e-10, "pm": a0 / 1e-12}[units]
+    path = tmp_path / f"m{suffix}"
+    write_bodies(real_mesh.bodies, path, units=units)
+    got, declared = _read_back(path)
+    want = np.vstack([b.vertices for b in real_mesh.bodies]) * scale
+    from scipy.spatial import cKDTree
+
+    tol = 1e-5 * scale  # float32 files keep ~7 digits of coordinates ~20 bohr across
+    assert cKDTree(want).query(got)[0].max() < tol  # every point read is one written...
+    assert cKDTree(got).query(want)[0].max() < tol  # ...and every point written is read
+    if suffix in (".glb", ".gltf", ".3mf"):
+        assert declared == units
+    if suffix == ".obj":
+        assert declared is not None and units in declared
 
 
 # ---------------------------------------------------------------- safe writes, via the CLI

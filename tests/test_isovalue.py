@@ -30,9 +30,12 @@ def _p_1s(rho: float) -> float:
 
 
 def test_1s_ninety_percent_radius():
-    # the textbook 90% boundary of hydrogen 1s at rho ~ 2.661 (common practice, no source)
+    # the textbook 90% boundary of hydrogen 1s lies at r = 2.661 bohr, about 1.41 angstrom
+    # (common practice, no source; it is the root of the closed form above, solved here)
     rho = brentq(lambda p: _p_1s(p) - 0.9, 0.1, 10)
-    assert rho == pytest.approx(2.661, abs=1e-3)
+    iso = enclosing_isovalue(Orbital.from_spec("1s"), fraction=0.9)
+    assert iso.max_radius == pytest.approx(rho, rel=1e-4)
+    assert iso.max_radius == pytest.approx(2.661, abs=1e-3)
 
 
 @pytest.mark.parametrize("fraction", [0.05, 0.5, 0.9, 0.99, 0.999])
