@@ -25,6 +25,7 @@ def test_1s_overlap_closed_form(R):
     assert bond.S == pytest.approx(math.exp(-R) * (1 + R + R * R / 3), abs=1e-10)
 
 
+@pytest.mark.slow
 @pytest.mark.parametrize(
     ("spec", "cos_azimuth"),
     [

@@ -57,6 +57,7 @@ def _argv(command: str, kind: str, out) -> list[str]:
 COMMANDS = ["info", "plot-slice", "plot-radial", "render", "mesh", "model", "animate"]
 
 
+@pytest.mark.slow
 @pytest.mark.parametrize("kind", list(KINDS))
 @pytest.mark.parametrize("command", COMMANDS)
 def test_command_works_or_refuses_in_one_line(command, kind, tmp_path, capsys):
@@ -80,6 +81,7 @@ def test_a_moving_superposition_animates(tmp_path, capsys):
     assert main([*argv, "-o", str(tmp_path / "a.gif")]) == 0
 
 
+@pytest.mark.slow
 def test_batch_items_of_every_kind(tmp_path, capsys):
     # a scene with one item of each kind, each making a figure, a mesh and a model
     lines = ["[defaults]", "grid = 48", 'outputs = ["png", "glb", "model.stl"]']

@@ -182,6 +182,7 @@ def test_memory_refusal(monkeypatch):
         build_mesh(Orbital.from_spec("2pz"), MeshOptions(grid=1024))
 
 
+@pytest.mark.slow
 def test_in_box_probability_and_clearance(meshes):
     for spec, result in meshes.items():
         report = result.report()

@@ -66,6 +66,7 @@ def test_mesh_vertices_on_the_level_of_a_harmonic_p_state():
     assert all(as_trimesh(b).is_watertight for b in result.bodies)
 
 
+@pytest.mark.slow
 def test_scene_items_take_a_potential(tmp_path):
     from orbviz.scenes.runner import run_scene
 

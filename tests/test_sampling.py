@@ -161,6 +161,7 @@ def test_a_window_that_would_cut_the_surface_falls_back_to_the_whole_box():
     assert np.abs(grid.values - ref).max() <= 1e-5 * np.abs(ref).max()
 
 
+@pytest.mark.slow
 @pytest.mark.parametrize(
     "spec",
     [
@@ -205,6 +206,7 @@ def test_window_contours_to_the_whole_box_surface(spec, monkeypatch):
     )
 
 
+@pytest.mark.slow
 @settings(max_examples=12, deadline=None)
 @given(
     st.lists(

@@ -115,6 +115,7 @@ def test_batch_cli_bad_scene_is_one_line(tmp_path, capsys):
     assert not (tmp_path / "out").exists()
 
 
+@pytest.mark.slow
 def test_run_manifest_rerun_and_force(tmp_path):
     items = parse_scene(SCENE, "test.toml")
     first = run_scene(items, tmp_path, jobs=2, progress=False)
@@ -140,6 +141,7 @@ def test_run_manifest_rerun_and_force(tmp_path):
     assert [e["status"] for e in forced["items"]] == ["done"] * 3
 
 
+@pytest.mark.slow
 def test_one_failure_does_not_stop_the_others(tmp_path, capsys):
     scene = tmp_path / "s.toml"
     # the second item fixes a figure extent too small to hold its surface, found only when the
@@ -160,6 +162,7 @@ def test_one_failure_does_not_stop_the_others(tmp_path, capsys):
     assert "failed: 3dz2" in capsys.readouterr().err
 
 
+@pytest.mark.slow
 def test_custom_executor_is_used(tmp_path):
     # any concurrent.futures.Executor works (a Dask Client.get_executor() fits the same slot)
     class Counting(cf.ProcessPoolExecutor):
@@ -199,6 +202,7 @@ CHROMIUM_FLAGS = [
 ]
 
 
+@pytest.mark.slow
 def test_contact_sheet_in_a_real_browser(tmp_path):
     exe = _chromium()
     out = tmp_path / "set"
@@ -249,6 +253,7 @@ def test_contact_sheet_in_a_real_browser(tmp_path):
     assert blue > 0.005 and orange > 0.005
 
 
+@pytest.mark.slow
 @pytest.mark.parametrize("scene", sorted(GALLERY.glob("*.toml")), ids=lambda p: p.stem)
 def test_gallery_scenes_parse_and_run(scene, tmp_path):
     items = load_scene(scene).items
@@ -259,6 +264,7 @@ def test_gallery_scenes_parse_and_run(scene, tmp_path):
     ]
 
 
+@pytest.mark.slow
 def test_demo_runs(tmp_path, capsys):
     status = main(["demo", "-o", str(tmp_path / "demo"), "--no-progress"])
     assert status == 0
