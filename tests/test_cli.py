@@ -180,3 +180,42 @@ def test_mesh_notes_a_grid_too_coarse_for_thin_shells(capsys, tmp_path):
     assert err.startswith("orbviz: note: the thinnest shell is") and "use a grid of" in err
     status, _, err = _run(capsys, "mesh", "3s", "-o", str(tmp_path / "b.stl"))
     assert status == 0 and err == ""
+
+
+def test_every_option_of_every_command_has_help_with_its_default():
+    # the help text is generated from the options model; every flag must say what it does, and
+    # every option that takes a value must show its default (the brief's requirement)
+    import argparse
+
+    from orbviz.cli.parser import build_parser
+
+    parser = build_parser()
+    (sub,) = [a for a in parser._actions if isinstance(a, argparse._SubParsersAction)]
+    assert set(sub.choices) == {
+        "info",
+        "mesh",
+        "render",
+        "plot",
+        "model",
+        "animate",
+        "batch",
+        "demo",
+    }
+    for name, command in sub.choices.items():
+        for action in command._actions:
+            if isinstance(action, argparse._HelpAction) or not action.option_strings:
+                continue
+            assert action.help, (name, action.option_strings)
+            takes_value = action.nargs != 0
+            if takes_value and not action.required:
+                assert "default" in action.help or action.dest in ("report",), (
+                    name,
+                    action.option_strings,
+                )
+
+
+def test_top_level_help_lists_hybrids_and_bonds(capsys):
+    status, out, _ = _run(capsys, "--help")
+    assert status == 0 and "2sp3[1]" in out and "bond(1s,1s,R=2.0,+)" in out
+    status, out, _ = _run(capsys, "animate", "--help")
+    assert all(kind in out for kind in (".gif", ".mp4", ".glb", "folder"))

@@ -34,8 +34,8 @@ def _shown(value: Any) -> str:
 
 
 def _help(rule: Rule, default: Any) -> str:
-    if rule.negate:
-        return rule.help
+    if rule.negate or "default" in rule.help:
+        return rule.help.replace("%", "%%")
     unit = f" {rule.unit}" if rule.unit and default is not None else ""
     return f"{rule.help} (default: {_shown(default)}{unit})".replace("%", "%%")
 

@@ -186,7 +186,12 @@ def animate(args: argparse.Namespace) -> int:
 
 
 def _run_batch(scene: Any, out: str, args: argparse.Namespace) -> int:
+    from orbviz._defaults import LIMITS
+    from orbviz.errors import OptionError
     from orbviz.scenes.runner import run_scene
+
+    if args.jobs is not None and not 1 <= args.jobs <= LIMITS.jobs_max:
+        raise OptionError("--jobs", f"expected a whole number from 1 to {LIMITS.jobs_max}")
 
     manifest = run_scene(
         scene.items,

@@ -83,7 +83,7 @@ def background_colour(raw: Any) -> str:
 
 
 def _image_option(default: tuple[int, int], help: str) -> Any:
-    return option(default, help, pixel_size, unit="pixels", metavar="WxH")
+    return option(default, f"{help}, 16 to 8192 a side", pixel_size, unit="pixels", metavar="WxH")
 
 
 @dataclass(frozen=True)
@@ -127,25 +127,37 @@ class FigureOptions:
     grid: int = grid_option()
     size: tuple[int, int] = _image_option(DEFAULTS.image_size, "image size")
     scale: float = option(
-        1.0, "resolution multiplier (2 for print)", number(0.25, 8.0), metavar="K"
+        1.0, "resolution multiplier, 0.25 to 8 (2 for print)", number(0.25, 8.0), metavar="K"
     )
     view: tuple[float, float] = option(
         VIEWS["iso"],
-        "camera direction: iso, x, y, z or AZ,EL (default iso)",
+        "camera direction: iso, x, y, z, or AZ,EL in degrees",
         view_angles,
-        unit="degrees",
+        metavar="VIEW",
     )
     transparent: bool = option(False, "transparent background (PNG alpha)", boolean())
-    background: str = option("white", "background colour, a name or #RRGGBB", background_colour)
+    background: str = option(
+        "white", "background colour, a name or #RRGGBB", background_colour, metavar="COLOUR"
+    )
     axes: bool = option(True, "leave out the axes triad", boolean(), flag="--no-axes", negate=True)
     scale_bar: str | None = option(
-        "angstrom", "scale bar unit", choice("angstrom", "bohr", allow_none=True)
+        "angstrom",
+        "scale bar unit",
+        choice("angstrom", "bohr", allow_none=True),
+        metavar="{angstrom,bohr,none}",
     )
-    title: str | None = option(None, "a title at the top left", text(200, allow_none=True))
-    lighting: str = option("soft", "lighting preset", choice(*LIGHTING))
+    title: str | None = option(
+        None, "a title at the top left", text(200, allow_none=True), metavar="TEXT"
+    )
+    lighting: str = option(
+        "soft", "lighting preset", choice(*LIGHTING), metavar="{soft,studio,flat}"
+    )
     nodes: bool = option(False, "draw the radial and angular nodal surfaces translucent", boolean())
     cut: str | None = option(
-        None, "cut away x > 0 (half) or x > 0, y > 0 (quarter)", choice(*CUTS, allow_none=True)
+        None,
+        "cut away x > 0 (half) or x > 0, y > 0 (quarter)",
+        choice(*CUTS, allow_none=True),
+        metavar="{half,quarter}",
     )
     outer: float | None = option(
         None,
@@ -200,17 +212,25 @@ class PlotOptions:
     """
 
     kind: str = option(
-        "slice", "slice through the nucleus, or the radial distribution", choice("slice", "radial")
+        "slice",
+        "a slice through the nucleus, or the radial distribution",
+        choice("slice", "radial"),
+        metavar="{slice,radial}",
     )
-    plane: str = option("xz", "plane of a slice", choice("xz", "xy", "yz"))
+    plane: str = option("xz", "plane of a slice", choice("xz", "xy", "yz"), metavar="{xz,xy,yz}")
     extent: float | None = option(
         None,
-        "half-width of the slice",
+        "half-width of the slice (default: 1.15 times the surface's reach)",
         number(0.0, LIMITS.extent_max, low_open=True, allow_none=True, unit="bohr"),
         unit="bohr",
         metavar="L",
     )
-    title: str | None = option(None, "the plot's title", text(200, allow_none=True))
+    title: str | None = option(
+        None,
+        "the plot's title (default: the orbital's label)",
+        text(200, allow_none=True),
+        metavar="TEXT",
+    )
 
 
 @dataclass(frozen=True)
@@ -234,13 +254,17 @@ class AnimationOptions:
     """
 
     frames: int = option(
-        24, "frames over the whole animation", integer(2, LIMITS.frames_max), metavar="N"
+        24, "frames over the whole animation, 2 to 600", integer(2, LIMITS.frames_max), metavar="N"
     )
     periods: float = option(
-        1.0, "beat periods shown", number(0.0, 100.0, low_open=True), metavar="P"
+        1.0, "beat periods shown, up to 100", number(0.0, 100.0, low_open=True), metavar="P"
     )
     seconds: float = option(
-        3.0, "playing time of one pass", number(0.1, 600.0, unit="s"), unit="s", metavar="S"
+        3.0,
+        "playing time of one pass (GIF, MP4, GLB), 0.1 to 600",
+        number(0.1, 600.0, unit="s"),
+        unit="s",
+        metavar="S",
     )
     grid: int = grid_option(DEFAULTS.animation_grid)
     size: tuple[int, int] = _image_option((800, 600), "frame size")

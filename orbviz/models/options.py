@@ -39,7 +39,7 @@ class ModelOptions:
 
     size_mm: float = option(
         60.0,
-        "longest side of the model",
+        "longest side of the model, 5 to 500",
         number(LIMITS.model_size_min_mm, LIMITS.model_size_max_mm, unit="mm"),
         unit="mm",
         key="size",
@@ -47,7 +47,7 @@ class ModelOptions:
     )
     rod_mm: float | None = option(
         None,
-        "rod and spoke diameter (default 4% of the size)",
+        "rod and spoke diameter, up to a quarter of the size (default: 4% of the size)",
         number(0.1, LIMITS.model_size_max_mm * LIMITS.rod_share_max, allow_none=True, unit="mm"),
         unit="mm",
         key="rod",
@@ -55,7 +55,7 @@ class ModelOptions:
     )
     min_feature_mm: float = option(
         DEFAULTS.min_feature_mm,
-        "thinnest printable feature (common FDM practice)",
+        "thinnest printable feature, 0.1 to 10 (1.2 is common FDM practice)",
         number(0.1, 10.0, unit="mm"),
         unit="mm",
         key="min_feature",
@@ -66,6 +66,7 @@ class ModelOptions:
         None,
         "cut away x > 0 (half) or x > 0, y > 0 (quarter)",
         choice("half", "quarter", allow_none=True),
+        metavar="{half,quarter}",
     )
     split: bool = option(False, "one STL per colour part (FILE-support.stl, ...)", boolean())
     grid: int = grid_option()

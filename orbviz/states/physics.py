@@ -54,7 +54,7 @@ class Physics:
 
     Z: float | None = option(
         None,
-        "nuclear charge (default 1; an element prefix such as Na: sets it)",
+        "nuclear charge, 0.001 to 1000 (default 1; an element prefix such as Na: sets it)",
         number(LIMITS.Z_min, LIMITS.Z_max, allow_none=True),
         metavar="Z",
         flag="--Z",
@@ -67,7 +67,7 @@ class Physics:
     )
     nuclear_mass: float | None = option(
         None,
-        "correct for a nucleus of this mass",
+        "correct for a nucleus of this mass, 0.00054 to 1e6",
         number(LIMITS.nuclear_mass_min_u, LIMITS.nuclear_mass_max_u, allow_none=True, unit="u"),
         unit="u",
         metavar="U",
@@ -81,7 +81,7 @@ class Physics:
     )
     fraction: float = option(
         DEFAULTS.fraction,
-        "probability the surface encloses",
+        "probability the surface encloses, 0.01 to 0.999",
         number(LIMITS.fraction_min, LIMITS.fraction_max),
         metavar="F",
     )

@@ -15,7 +15,7 @@ def grid_option(default: int = DEFAULTS.grid) -> int:
     """Return the ``grid`` option, shared by every job that samples a field."""
     return option(  # type: ignore[no-any-return]
         default,
-        "samples per axis of the sampling grid (memory is checked before sampling)",
+        "samples per axis, 16 to 1024 (memory is checked before sampling)",
         integer(LIMITS.grid_min, LIMITS.grid_max),
         metavar="N",
     )
@@ -25,7 +25,7 @@ def colors_option() -> ColorPair:
     """Return the ``colors`` option, shared by every job that colours phases."""
     return option(  # type: ignore[no-any-return]
         DEFAULT_PAIR,
-        "phase colours as POSITIVE,NEGATIVE hex; default '#0072B2,#D55E00'",
+        "phase colours as POSITIVE,NEGATIVE hex",
         color_pair,
         metavar="POS,NEG",
     )
@@ -52,16 +52,20 @@ class MeshOptions:
     grid: int = grid_option()
     faces: int | None = option(
         None,
-        "decimate to about N faces over all bodies",
+        "decimate to about N faces over all bodies, 100 to 1e7",
         integer(LIMITS.faces_min, LIMITS.faces_max, allow_none=True),
         metavar="N",
     )
     smooth: int = option(
-        0, "Taubin smoothing iterations (0: none)", integer(0, LIMITS.smooth_max), metavar="ITER"
+        0,
+        "Taubin smoothing iterations, 0 (none) to 1000",
+        integer(0, LIMITS.smooth_max),
+        metavar="ITER",
     )
     units: str = option(
         "bohr",
         "length unit of the written coordinates",
         choice(*(u for u in LENGTH_UNITS if u != "mm")),
+        metavar="{bohr,angstrom,nm,pm}",
     )
     colors: ColorPair = colors_option()
