@@ -65,11 +65,12 @@ ORBVIZ = r"""
 import sys, time, json, resource
 from orbviz.states.orbital import Orbital
 from orbviz.surface.mesh import build_mesh
+from orbviz.surface.options import MeshOptions
 from orbviz.export import write_bodies
 import orbviz.surface.contour, orbviz.export.gltf, trimesh, vtkmodules.vtkFiltersCore  # noqa: E501
 spec, N, out = sys.argv[1], int(sys.argv[2]), sys.argv[3]
 t0 = time.perf_counter()
-result = build_mesh(Orbital.from_spec(spec), grid=N)
+result = build_mesh(Orbital.from_spec(spec), MeshOptions(grid=N))
 write_bodies(result.bodies, out)
 elapsed = time.perf_counter() - t0
 peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024

@@ -357,3 +357,24 @@ def test_mesh_bad_options(tmp_path, capsys, argv, fragment):
     err = capsys.readouterr().err
     assert status == 2 and fragment in err and err.count("\n") == 1
     assert not any(tmp_path.iterdir())
+
+
+@pytest.mark.parametrize(
+    ("argv", "name"),
+    [
+        (["mesh", "2pz", "--grid", "32"], "a.obj"),
+        (["render", "2pz", "--grid", "32", "--size", "80x60"], "a.png"),
+        (["plot", "2pz"], "a.pdf"),
+        (["model", "2pz", "--grid", "32"], "a.stl"),
+    ],
+)
+def test_no_clobber_keeps_an_existing_file(tmp_path, capsys, argv, name):
+    # the documented overwrite rule (docs/meshes.md): by default the whole set is replaced; with
+    # --no-clobber an existing target is refused before any work, byte for byte unchanged
+    target = tmp_path / name
+    target.write_bytes(b"keep me")
+    status = main([*argv, "-o", str(target), "--no-clobber"])
+    err = capsys.readouterr().err
+    assert status == 2 and "no-clobber keeps existing files" in err and err.count("\n") == 1
+    assert target.read_bytes() == b"keep me" and sorted(tmp_path.iterdir()) == [target]
+    assert main([*argv, "-o", str(target)]) == 0 and target.read_bytes() != b"keep me"

@@ -24,6 +24,14 @@ def _physics(args: argparse.Namespace) -> Physics:
     return options_from(args, Physics)
 
 
+def _keep(args: argparse.Namespace, targets: list[Path], *, folders: bool = False) -> None:
+    """With --no-clobber, refuse before any work if a file to be written exists."""
+    from orbviz.export import check_targets
+
+    if getattr(args, "no_clobber", False):
+        check_targets(targets, folders=folders, clobber=False)
+
+
 def _report_target(path: str | None) -> Path | None:
     if path is None:
         return None
@@ -54,8 +62,10 @@ def mesh(args: argparse.Namespace) -> int:
     from orbviz.surface.options import MeshOptions
 
     physics, options = _physics(args), options_from(args, MeshOptions)
-    target = check_output(args.output)[0]
+    targets = check_output(args.output)
     report_path = _report_target(args.report)
+    _keep(args, targets + ([report_path] if report_path else []))
+    target = targets[0]
     state = make_state(args.spec, physics)
     result = build_mesh(state, options, fraction=physics.fraction)
     files = encode_bodies(
@@ -91,6 +101,7 @@ def render(args: argparse.Namespace) -> int:
 
     physics, options = _physics(args), options_from(args, FigureOptions)
     (target,) = check_output(args.output, [".png"])
+    _keep(args, [target])
     states = make_states(args.spec, physics)
     if len(states) > 1:
         with set_figure(states, options, fraction=physics.fraction) as fig:
@@ -116,6 +127,7 @@ def plot(args: argparse.Namespace) -> int:
 
     physics, options = _physics(args), options_from(args, PlotOptions)
     (target,) = check_output(args.output, [".png", ".svg", ".pdf"])
+    _keep(args, [target])
     state = make_state(args.spec, physics)
     fig, _ = make_plot(state, options, fraction=physics.fraction)
     save_figure(fig, target)
@@ -130,8 +142,9 @@ def model(args: argparse.Namespace) -> int:
     from orbviz.models.options import ModelOptions
 
     physics, options = _physics(args), options_from(args, ModelOptions)
-    model_targets(args.output, options)
+    targets = model_targets(args.output, options)
     report_path = _report_target(args.report)
+    _keep(args, targets + ([report_path] if report_path else []))
     states = make_states(args.spec, physics)  # a hybrid set (2sp3) makes one model
     built = build_model(
         states if len(states) > 1 else states[0], options, fraction=physics.fraction
@@ -173,6 +186,7 @@ def animate(args: argparse.Namespace) -> int:
 
     physics, options = _physics(args), options_from(args, AnimationOptions)
     target = check_animation_output(args.output)
+    _keep(args, [target], folders=not target.suffix)
     state = make_state(args.spec, physics)
     movie = make_animation(
         state, options, fraction=physics.fraction, keep_bodies=target.suffix.lower() == ".glb"

@@ -63,6 +63,12 @@ def _command(
 
 def _output(parser: argparse.ArgumentParser, what: str, metavar: str = "FILE") -> None:
     parser.add_argument("-o", "--output", required=True, metavar=metavar, help=what)
+    parser.add_argument(
+        "--no-clobber",
+        action="store_true",
+        help="refuse to replace existing files (by default a run replaces the whole set of files "
+        "it writes, and only when all are complete)",
+    )
 
 
 def _report(parser: argparse.ArgumentParser, what: str) -> None:

@@ -47,7 +47,7 @@ def _clean_stale(target: Path) -> None:
                     leftover.unlink(missing_ok=True)
 
 
-def check_targets(targets: Sequence[Path], *, folders: bool = False) -> None:
+def check_targets(targets: Sequence[Path], *, folders: bool = False, clobber: bool = True) -> None:
     """Refuse, before any work, targets that cannot be written.
 
     Parameters
@@ -56,6 +56,8 @@ def check_targets(targets: Sequence[Path], *, folders: bool = False) -> None:
         Files (or, with ``folders``, folders) that will be written.
     folders : bool, default: False
         The targets are folders to be replaced as a whole.
+    clobber : bool, default: True
+        Existing targets may be replaced (as a whole set); with False they are refused.
 
     Raises
     ------
@@ -77,6 +79,10 @@ def check_targets(targets: Sequence[Path], *, folders: bool = False) -> None:
             raise OutputError(f"cannot write {str(target)!r}: it is a folder")
         if folders and target.exists() and not target.is_dir():
             raise OutputError(f"cannot write {str(target)!r}: it exists and is not a folder")
+        if not clobber and (target.exists() or target.is_symlink()):
+            raise OutputError(
+                f"cannot write {str(target)!r}: it exists, and no-clobber keeps existing files"
+            )
 
 
 def _temporary(target: Path, *, folder: bool = False) -> Path:
