@@ -35,7 +35,7 @@ def _run(argv: Sequence[str] | None) -> int:
     from orbviz.cli.commands import COMMANDS
     from orbviz.cli.parser import build_parser
 
-    parser = build_parser()
+    parser = build_parser(sys.argv[1:] if argv is None else argv)
     try:
         args = parser.parse_args(argv)
         if not getattr(args, "command", None):

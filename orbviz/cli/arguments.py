@@ -11,7 +11,6 @@ import argparse
 from typing import Any, TypeVar
 
 from orbviz._options import Rule, build, cli_flag, rules
-from orbviz.figures.options import VIEWS
 
 __all__ = ["add_options", "options_from"]
 
@@ -28,8 +27,10 @@ def _shown(value: Any) -> str:
         return ",".join("#{:02X}{:02X}{:02X}".format(*c[:3]) for c in value)  # a colour pair
     if isinstance(value, tuple) and len(value) == 2 and all(isinstance(v, int) for v in value):
         return f"{value[0]}x{value[1]}"
-    if isinstance(value, tuple) and value in VIEWS.values():
-        return next(name for name, angles in VIEWS.items() if angles == value)
+    if isinstance(value, tuple) and all(isinstance(v, float) for v in value):  # a view
+        from orbviz.figures.options import VIEWS
+
+        return next((name for name, angles in VIEWS.items() if angles == value), str(value))
     return f"{value:g}" if isinstance(value, float) else str(value)
 
 

@@ -3,14 +3,11 @@
 from __future__ import annotations
 
 import argparse
+from collections.abc import Callable, Sequence
 
 from orbviz import __version__
 from orbviz.cli.arguments import add_options
 from orbviz.errors import UsageError
-from orbviz.figures.options import AnimationOptions, FigureOptions, PlotOptions
-from orbviz.models.options import ModelOptions
-from orbviz.states.physics import Physics
-from orbviz.surface.options import MeshOptions
 
 __all__ = ["SPEC_HELP", "build_parser"]
 
@@ -36,29 +33,14 @@ class _Parser(argparse.ArgumentParser):
         raise UsageError(f"{message} (see '{self.prog} --help')")
 
 
-def _command(
-    sub: argparse._SubParsersAction[_Parser],
-    name: str,
-    summary: str,
-    description: str,
-    *,
-    spec: bool = True,
-) -> _Parser:
-    """Add a command; those that take an orbital show the spec grammar and the physics flags."""
-    parser: _Parser = sub.add_parser(
-        name,
-        help=summary,
-        description=description,
-        epilog=SPEC_HELP if spec else None,
-        formatter_class=argparse.RawDescriptionHelpFormatter,
+def _spec(parser: argparse.ArgumentParser) -> None:
+    """Add the orbital argument and the physics flags of a command that takes one."""
+    from orbviz.states.physics import Physics
+
+    parser.add_argument(
+        "spec", help="the orbital, e.g. 3dz2, 4,2,-1, '0.6*2s+0.8*2pz' or bond(1s,1s,R=2,+)"
     )
-    parser.set_defaults(command=name)
-    if spec:
-        parser.add_argument(
-            "spec", help="the orbital, e.g. 3dz2, 4,2,-1, '0.6*2s+0.8*2pz' or bond(1s,1s,R=2,+)"
-        )
-        add_options(parser, Physics)
-    return parser
+    add_options(parser, Physics)
 
 
 def _output(parser: argparse.ArgumentParser, what: str, metavar: str = "FILE") -> None:
@@ -86,76 +68,154 @@ def _run_flags(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("--no-progress", action="store_true", help="no progress bar")
 
 
-def _spec_commands(sub: argparse._SubParsersAction[_Parser]) -> None:
-    info = _command(
-        sub,
-        "info",
+def _info(parser: argparse.ArgumentParser) -> None:
+    _spec(parser)
+    parser.add_argument(
+        "--json", action="store_true", help="print one JSON object (keys in docs/info.md)"
+    )
+
+
+def _mesh(parser: argparse.ArgumentParser) -> None:
+    from orbviz.surface.options import MeshOptions
+
+    _spec(parser)
+    _output(parser, "output: .stl .obj .glb .gltf .ply .3mf")
+    add_options(parser, MeshOptions)
+    _report(parser, "the mesh statistics")
+
+
+def _render(parser: argparse.ArgumentParser) -> None:
+    from orbviz.figures.options import FigureOptions
+
+    _spec(parser)
+    _output(parser, "output: .png", "FILE.png")
+    add_options(parser, FigureOptions)
+
+
+def _plot(parser: argparse.ArgumentParser) -> None:
+    from orbviz.figures.options import PlotOptions
+
+    _spec(parser)
+    _output(parser, "output: .png .svg .pdf")
+    add_options(parser, PlotOptions)
+
+
+def _model(parser: argparse.ArgumentParser) -> None:
+    from orbviz.models.options import ModelOptions
+
+    _spec(parser)
+    _output(parser, "output: .stl or .3mf")
+    add_options(parser, ModelOptions)
+    _report(parser, "the model facts")
+
+
+def _animate(parser: argparse.ArgumentParser) -> None:
+    from orbviz.figures.options import AnimationOptions
+
+    _spec(parser)
+    _output(parser, "output: .gif, .mp4, .glb, or a folder", "FILE.gif|FILE.mp4|FILE.glb|DIR")
+    add_options(parser, AnimationOptions)
+
+
+def _batch(parser: argparse.ArgumentParser) -> None:
+    parser.add_argument("scene", help="scene file (.toml)")
+    parser.add_argument("-o", "--output", required=True, metavar="DIR", help="output folder")
+    _run_flags(parser)
+    parser.add_argument(
+        "--tables-anywhere",
+        action="store_true",
+        help="allow potential tables outside the scene's folder",
+    )
+
+
+def _demo(parser: argparse.ArgumentParser) -> None:
+    parser.add_argument(
+        "-o",
+        "--output",
+        default="orbviz-demo",
+        metavar="DIR",
+        help="output folder (default: ./orbviz-demo)",
+    )
+    _run_flags(parser)
+    parser.set_defaults(tables_anywhere=False)
+
+
+# name: (one-line summary, description, whether it takes an orbital, what adds its flags)
+_COMMANDS: dict[str, tuple[str, str, bool, Callable[[argparse.ArgumentParser], None]]] = {
+    "info": (
         "energy, nodes, radii and the enclosing isovalue of an orbital",
         "Energy, nodes, radii and the isovalue enclosing --fraction of the probability. "
         "Atomic units: bohr, hartree (eV from CODATA).",
-    )
-    info.add_argument(
-        "--json", action="store_true", help="print one JSON object (keys in docs/info.md)"
-    )
-    mesh = _command(
-        sub,
-        "mesh",
+        True,
+        _info,
+    ),
+    "mesh": (
         "closed phase-coloured isosurface meshes (STL, OBJ, glTF/GLB, PLY, 3MF)",
         "Closed isosurface bodies enclosing --fraction of the probability, one per phase, "
         "written in the format the output suffix names (an .obj gets a .mtl, a .gltf a .bin "
         "beside it). Coordinates in bohr unless --units says otherwise; nucleus at the "
         "origin, z the quantisation axis.",
-    )
-    _output(mesh, "output: .stl .obj .glb .gltf .ply .3mf")
-    add_options(mesh, MeshOptions)
-    _report(mesh, "the mesh statistics")
-    render = _command(
-        sub,
-        "render",
+        True,
+        _mesh,
+    ),
+    "render": (
         "a publication figure of the isosurface, rendered off-screen to PNG",
         "An orthographic, phase-coloured figure of the isosurface enclosing --fraction, "
         "rendered without a display. Complex states get a phase wheel. A hybrid set "
         "(2sp3) is drawn in one figure, each member in its own colour.",
-    )
-    _output(render, "output: .png", "FILE.png")
-    add_options(render, FigureOptions)
-    plot = _command(
-        sub,
-        "plot",
+        True,
+        _render,
+    ),
+    "plot": (
         "2D companions: a density slice or the radial distribution (PNG, SVG, PDF)",
         "A density slice through the nucleus with the isovalue and nodes, or the radial "
         "distribution with nodes, <r> and the most probable radius.",
-    )
-    _output(plot, "output: .png .svg .pdf")
-    add_options(plot, PlotOptions)
-    model = _command(
-        sub,
-        "model",
+        True,
+        _plot,
+    ),
+    "model": (
         "a printable model in millimetres (STL, or 3MF with colour parts)",
         "The isosurface as one watertight solid, its longest side --size mm, phases joined "
         "by a rod along z with a nucleus bead (and spokes to off-axis lobes). A .3mf (or "
         "--split) carries each phase and the support as separate colour parts. "
         "Printability is checked before writing. Read docs/printing.md for the safety notes.",
-    )
-    _output(model, "output: .stl or .3mf")
-    add_options(model, ModelOptions)
-    _report(model, "the model facts")
-    animate = _command(
-        sub,
-        "animate",
+        True,
+        _model,
+    ),
+    "animate": (
         "a superposition in motion: frames of psi(t), one level, the period in fs",
         "Plays psi(t) = sum c_k psi_k exp(-i E_k t) over its beat period T = 2 pi / dE, "
         "at one fixed isovalue for every frame, coloured by phase. Writes an animated "
         "GIF (.gif), an H.264 video (.mp4), an animated glTF binary (.glb) or, for a "
         "name without a suffix, a folder of PNG frames (replaced as a whole). A "
         "superposition of degenerate states does not move and is refused.",
-    )
-    _output(animate, "output: .gif, .mp4, .glb, or a folder", "FILE.gif|FILE.mp4|FILE.glb|DIR")
-    add_options(animate, AnimationOptions)
+        True,
+        _animate,
+    ),
+    "batch": (
+        "run a scene file: figures, meshes and models of many orbitals in parallel",
+        "Runs every item of a TOML scene file (see docs/scenes.md) in parallel worker "
+        "processes, keeps DIR/manifest.json up to date, skips unchanged items on a rerun, "
+        "and writes a contact sheet DIR/index.html. Exit status 1 if any item failed.",
+        False,
+        _batch,
+    ),
+    "demo": (
+        "make a demo set: the orbitals of n = 1-3, a complex state, a mixture, a model",
+        "Runs the scene shipped inside orbviz (orbviz/data/demo.toml) into DIR.",
+        False,
+        _demo,
+    ),
+}
 
 
-def build_parser() -> _Parser:
-    """Return the ``orbviz`` parser with every command."""
+def build_parser(argv: Sequence[str] | None = None) -> _Parser:
+    """Return the ``orbviz`` parser.
+
+    Every command is listed; only the one named in ``argv`` (every one, without ``argv``) gets
+    its flags, so a command imports only its own options.
+    """
+    chosen = set(_COMMANDS) if argv is None else {a for a in argv if a in _COMMANDS}
     parser = _Parser(
         prog="orbviz",
         description="Hydrogen-like orbitals as isosurfaces that enclose a stated probability.",
@@ -164,38 +224,15 @@ def build_parser() -> _Parser:
     )
     parser.add_argument("--version", action="version", version=f"orbviz {__version__}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
-    _spec_commands(sub)
-    batch = _command(
-        sub,
-        "batch",
-        "run a scene file: figures, meshes and models of many orbitals in parallel",
-        "Runs every item of a TOML scene file (see docs/scenes.md) in parallel worker "
-        "processes, keeps DIR/manifest.json up to date, skips unchanged items on a rerun, "
-        "and writes a contact sheet DIR/index.html. Exit status 1 if any item failed.",
-        spec=False,
-    )
-    batch.add_argument("scene", help="scene file (.toml)")
-    _output(batch, "output folder", "DIR")
-    _run_flags(batch)
-    batch.add_argument(
-        "--tables-anywhere",
-        action="store_true",
-        help="allow potential tables outside the scene's folder",
-    )
-    demo = _command(
-        sub,
-        "demo",
-        "make a demo set: the orbitals of n = 1-3, a complex state, a mixture, a model",
-        "Runs the scene shipped inside orbviz (orbviz/data/demo.toml) into DIR.",
-        spec=False,
-    )
-    demo.add_argument(
-        "-o",
-        "--output",
-        default="orbviz-demo",
-        metavar="DIR",
-        help="output folder (default: ./orbviz-demo)",
-    )
-    _run_flags(demo)
-    demo.set_defaults(tables_anywhere=False)
+    for name, (summary, description, spec, flags) in _COMMANDS.items():
+        command: _Parser = sub.add_parser(
+            name,
+            help=summary,
+            description=description,
+            epilog=SPEC_HELP if spec else None,
+            formatter_class=argparse.RawDescriptionHelpFormatter,
+        )
+        command.set_defaults(command=name)
+        if name in chosen:
+            flags(command)
     return parser
