@@ -189,15 +189,15 @@ def test_3mf_round_trip_lib3mf(real_mesh, tmp_path):
         assert closed
 
 
-def test_default_phase_colours_in_the_file_are_okabe_ito(real_mesh, tmp_path):
-    # the written materials carry the published Okabe & Ito (2008) blue #0072B2 and vermillion
-    # #D55E00, read back by trimesh from the GLB
+def test_default_phase_colours_in_the_file_are_tols_high_contrast_pair(real_mesh, tmp_path):
+    # the written materials carry the published pair of Paul Tol's high-contrast scheme
+    # (SRON/EPS/TN/09-002, 2021): #004488 and #DDAA33, read back by trimesh from the GLB
     import trimesh
 
     write_bodies(real_mesh.bodies, tmp_path / "c.glb")
     scene = trimesh.load(tmp_path / "c.glb", process=False)
     colour = {n: tuple(g.visual.material.baseColorFactor[:3]) for n, g in scene.geometry.items()}
-    assert colour == {"positive": (0x00, 0x72, 0xB2), "negative": (0xD5, 0x5E, 0x00)}
+    assert colour == {"positive": (0x00, 0x44, 0x88), "negative": (0xDD, 0xAA, 0x33)}
 
 
 def _read_back(path: Path) -> tuple[np.ndarray, str | None]:

@@ -117,7 +117,8 @@ def test_3mf_parts_and_colours_read_back_with_lib3mf(tmp_path, capsys):
             obj.IsManifoldAndOriented(),
         )
     assert set(found) == {"support", "positive", "negative"}
-    assert found["positive"][0] == (0, 114, 178) and found["negative"][0] == (213, 94, 0)
+    # Paul Tol's high-contrast pair (SRON/EPS/TN/09-002, 2021): #004488 and #DDAA33
+    assert found["positive"][0] == (0x00, 0x44, 0x88) and found["negative"][0] == (0xDD, 0xAA, 0x33)
     assert all(closed for _, closed in found.values())
 
 

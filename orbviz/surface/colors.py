@@ -1,9 +1,12 @@
 """Phase colours: a colour-blind-safe pair for real states, a cyclic map for complex ones.
 
 Defaults (our choice, documented in ../docs/meshes.md):
-- positive: blue #0072B2; negative: vermillion #D55E00. Both are from the Okabe & Ito palette
-  for colour-blind readers ("Color Universal Design", 2008), and they differ in lightness as
-  well as hue, so they also print apart in grey.
+- positive: dark blue #004488; negative: yellow #DDAA33, the pair of Paul Tol's high-contrast
+  scheme (P. Tol, "Colour Schemes", SRON/EPS/TN/09-002, 2021), made to stay apart for
+  colour-blind readers and in greyscale. Their CIELAB lightness differs by 43 (29 against 72),
+  where the Okabe & Ito blue and vermillion used before differ by 8 (46 against 54) and merge
+  on a greyscale page; under simulated deuteranopia and protanopia (Machado et al. 2009) the
+  two still differ by over 35 in lightness and lie at opposite ends of the blue-yellow axis.
 - phase angle: a circle of constant lightness L* = 68 and chroma 40 in CIELAB, hue angle equal to
   arg psi. It is isoluminant and close to uniform in perceived hue steps (the design idea of the
   cyclic maps in Kovesi, arXiv:1509.03700), and it has no seam at +-pi.
@@ -30,8 +33,8 @@ __all__ = [
 RGBA = tuple[int, int, int, int]
 ColorPair = tuple[RGBA, RGBA]
 DEFAULT_PAIR: ColorPair = (
-    (0, 114, 178, 255),
-    (213, 94, 0, 255),
+    (0x00, 0x44, 0x88, 255),
+    (0xDD, 0xAA, 0x33, 255),
 )
 SET_PALETTE: tuple[tuple[int, int, int], ...] = (  # Okabe & Ito (2008): one colour per member
     (0, 114, 178),
@@ -49,7 +52,7 @@ def color_pair(raw: object) -> ColorPair:
 
     A converter of the options model: raises ``ValueError`` with the rule on a bad value.
     """
-    rule = "expected two hex colours 'POSITIVE,NEGATIVE' like '#0072B2,#D55E00'"
+    rule = "expected two hex colours 'POSITIVE,NEGATIVE' like '#004488,#DDAA33'"
     if isinstance(raw, str):
         parts = [p.strip() for p in raw.split(",")]
         if len(parts) != 2 or not all(_HEX.fullmatch(p) for p in parts):
