@@ -69,9 +69,9 @@ def test_screened_orbital_is_hydrogen_like_with_z_eff():
 @pytest.mark.parametrize(
     ("spec", "fragment"),
     [
-        ("Na:3d", "no 3d electron"),
+        ("Na:3dz2", "no 3d electron"),
         ("Xx:1s", "unknown element"),
-        ("Fe:3d+4s", "different Slater charges"),
+        ("Fe:3dz2+4s", "different Slater charges"),
     ],
 )
 def test_screened_errors(spec, fragment):
@@ -80,11 +80,14 @@ def test_screened_errors(spec, fragment):
 
 
 def test_cli_info_and_mesh_for_a_screened_orbital(capsys, tmp_path):
-    assert main(["info", "C:2p", "--json"]) == 0
-    info = json.loads(capsys.readouterr().out)
-    assert info["element"] == "C" and info["Z"] == pytest.approx(3.25)
-    assert info["label"] == "C:2pz"
-    assert info["mean_radius_bohr"] == pytest.approx((12 - 2) / (2 * 3.25), rel=1e-12)
+    assert main(["info", "C:2p", "--json"]) == 0  # the element form names the set, like 2p
+    infos = json.loads(capsys.readouterr().out)
+    assert [i["label"] for i in infos] == ["C:2px", "C:2py", "C:2pz"]
+    for info in infos:
+        # Slater's rules for carbon 2p: Z_eff = 6 - (3 x 0.35 + 2 x 0.85) = 3.25 (Slater 1930);
+        # <r> = [3n^2 - l(l+1)]/(2 Z_eff) (Bethe & Salpeter 1957)
+        assert info["element"] == "C" and info["Z"] == pytest.approx(3.25)
+        assert info["mean_radius_bohr"] == pytest.approx((12 - 2) / (2 * 3.25), rel=1e-12)
     assert main(["mesh", "Fe:3dxy", "--grid", "48", "-o", str(tmp_path / "fe.stl")]) == 0
     status = main(["info", "Na:3s", "--Z", "2"])
     assert status == 2 and "leave out Z" in capsys.readouterr().err

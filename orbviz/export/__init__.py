@@ -63,13 +63,14 @@ def check_output(path: str | os.PathLike[str], suffixes: Sequence[str] | None = 
     list of Path
         The main file and its companions, all checked.
     """
+    text = os.fspath(path)  # as given: Path("") reads "."
     path = Path(path)
     allowed = list(suffixes if suffixes is not None else SUFFIXES)
     suffix = path.suffix.lower()
     if suffix not in allowed:
         known = ", ".join(sorted(allowed))
         raise OutputError(
-            f"cannot write {str(path)!r}: unknown suffix {suffix or '(none)'!r}; use {known}"
+            f"cannot write {text!r}: unknown suffix {suffix or '(none)'!r}; use {known}"
         )
     targets = [path]
     if suffix in SUFFIXES:

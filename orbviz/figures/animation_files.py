@@ -7,6 +7,7 @@ written all or nothing; a frames folder is replaced as a whole, never topped up.
 from __future__ import annotations
 
 import os
+import re
 from pathlib import Path
 from typing import Any
 
@@ -19,16 +20,35 @@ from orbviz.figures.animation import Animation
 __all__ = ["ANIMATION_SUFFIXES", "check_animation_output", "write_animation"]
 
 ANIMATION_SUFFIXES = (".gif", ".mp4", ".glb", "")  # "": a folder of PNG frames
+_FRAME = re.compile(r"frame_\d{3,}\.png")
 
 
 def check_animation_output(path: str | os.PathLike[str]) -> Path:
-    """Refuse, before any work, an animation output that cannot be written."""
+    """Refuse, before any work, an animation output that cannot be written.
+
+    A frames folder (no suffix) is replaced as a whole, so it must be named (not ``.``) and may
+    hold only frames (``frame_NNN.png``) already: a folder of other files is never replaced.
+    """
+    text = os.fspath(path)
     path = Path(path)
     if path.suffix.lower() not in ANIMATION_SUFFIXES:
+        raise OutputError(f"cannot write {text!r}: animations go to .gif, .mp4, .glb or a folder")
+    if not path.suffix and path.name in ("", ".."):  # "", ".", "/", "a/.."
         raise OutputError(
-            f"cannot write {str(path)!r}: animations go to .gif, .mp4, .glb or a folder"
+            f"cannot write frames to {text!r}: a frames folder is replaced as a whole, so name "
+            "it (not '.', '..' or '/')"
         )
     check_targets([path], folders=not path.suffix)
+    if not path.suffix and path.is_dir():
+        try:
+            other = next((p.name for p in path.iterdir() if not _FRAME.fullmatch(p.name)), None)
+        except OSError as error:
+            raise OutputError(f"cannot write frames to {text!r}: {error.strerror}") from None
+        if other is not None:
+            raise OutputError(
+                f"cannot write frames to {text!r}: the folder holds {other!r}, which is not a "
+                "frame, and a frames folder is replaced as a whole; name a new folder"
+            )
     return path
 
 

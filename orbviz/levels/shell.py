@@ -126,7 +126,7 @@ class ShellQuadrature:
         angular = np.abs(self.orbital.shell_angular(ux, uy, uz)[(n, l)]) ** 2
         # farthest radius whose density reaches t: the last index where the suffix max >= t
         suffix = np.maximum.accumulate(self.radial_density[::-1])[::-1]
-        with np.errstate(divide="ignore"):
+        with np.errstate(divide="ignore", over="ignore"):  # a tiny angular factor: need = inf
             need = np.where(angular > 0, level / angular, np.inf)
         count = np.searchsorted(-suffix, -need, side="right")
         far = np.where(count > 0, self.radii[np.maximum(count - 1, 0)], 0.0)

@@ -16,6 +16,7 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
+from orbviz._defaults import LIMITS
 from orbviz._options import build, external_keys
 from orbviz.errors import OptionError, OrbvizError, SceneError
 from orbviz.figures.options import FigureOptions
@@ -23,13 +24,15 @@ from orbviz.models.options import ModelOptions
 from orbviz.scenes.items import OUTPUTS, Item, slug
 from orbviz.states.angular import LABELS
 from orbviz.states.physics import Physics
+from orbviz.states.potentials import TABLE_BYTES
 from orbviz.surface.options import MeshOptions
 
 __all__ = ["Scene", "load_scene", "parse_scene"]
 
 _MAX_BYTES = 1_000_000
 _NAME = re.compile(r"[A-Za-z0-9][A-Za-z0-9._-]{0,99}")
-_HEADER = re.compile(r"^\s*\[\[\s*(orbital|shells)\s*\]\]", re.M)
+# one line each ([ \t], not \s, which spans blank lines and backtracks in quadratic time)
+_HEADER = re.compile(r"^[ \t]*\[\[[ \t]*(orbital|shells)[ \t]*\]\]", re.M)
 _SHELL_MAX = 12
 _PHYSICS = {v: k for k, v in external_keys(Physics).items()}
 _SHARED = {"grid", "colors"}  # common keys that go into the render and model tables
@@ -120,7 +123,8 @@ def _table(
             "the command line)",
         )
     try:
-        digest = hashlib.sha256(path.read_bytes()).hexdigest()
+        with path.open("rb") as handle:  # the table's own reader refuses what is larger
+            digest = hashlib.sha256(handle.read(TABLE_BYTES + 1)).hexdigest()
     except OSError as error:
         raise where.error(
             "potential", f"cannot read table {path.name!r}: {error.strerror}"
@@ -210,8 +214,12 @@ def _expand(
         spec = entry.get("spec")
         if spec is None:
             raise where.error("spec", "missing")
-        if not isinstance(spec, str) or len(spec) > 4000:
+        if not isinstance(spec, str):
             raise where.error("spec", f"expected spec text, got {spec!r}")
+        if len(spec) > LIMITS.spec_chars:
+            raise where.error(
+                "spec", f"spec text is {len(spec)} characters long; at most {LIMITS.spec_chars}"
+            )
         where = _Where(source, f"orbital {index} ({spec!r})")
         return where, [(spec, entry.get("name"))], _layer(entry, where, {"spec", "name"})
     if "n" not in entry:
@@ -225,17 +233,19 @@ def _expand(
     return where, [(s, None) for n in ns for s in _shell_specs(n)], own
 
 
-def _check_names(items: list[Item], source: str) -> None:
-    """Refuse items whose files would collide (case-insensitively, as on many file systems)."""
-    owners: dict[str, Item] = {}
-    for item in items:
-        for name in item.files():
-            other = owners.setdefault(name.lower(), item)
-            if other is not item:
-                raise SceneError(
-                    f"{source}: {item.where} and {other.where} both write {name!r}; give one a "
-                    "different 'name'"
-                )
+def _claim_names(owners: dict[str, Item], item: Item, source: str) -> None:
+    """Refuse an item whose files collide with an earlier item's.
+
+    Names compare case-insensitively, as on many file systems; ``owners`` maps the lower-case
+    names claimed so far to their items.
+    """
+    for name in item.files():
+        other = owners.setdefault(name.lower(), item)
+        if other is not item:
+            first = other.where.removeprefix(f"{source}: ")
+            raise SceneError(
+                f"{item.where} and {first} both write {name!r}; give one a different 'name'"
+            )
 
 
 def _document(text: str, source: str) -> dict[str, Any]:
@@ -282,16 +292,16 @@ def parse_scene(
     defaults_where = _Where(source, "[defaults]")
     defaults = _layer(doc.get("defaults", {}), defaults_where, set())
     _item(None, "1s", _merge(defaults, {}), defaults_where, Path(base), tables_anywhere)
-    items = []
+    items: list[Item] = []
+    owners: dict[str, Item] = {}  # checked as items come: a repeated shell stops at once
     for kind, index, entry in _entries(doc, text, source):
         where, specs, own = _expand(kind, index, entry, source)
         values = _merge(defaults, own)
-        items += [
-            _item(name, spec, values, where, Path(base), tables_anywhere) for spec, name in specs
-        ]
+        for spec, name in specs:
+            items.append(_item(name, spec, values, where, Path(base), tables_anywhere))
+            _claim_names(owners, items[-1], source)
     if not items:
         raise SceneError(f"{source}: no items: add [[orbital]] or [[shells]] tables")
-    _check_names(items, source)
     return Scene(title, items)
 
 
@@ -301,13 +311,14 @@ def load_scene(path: str | Path, *, tables_anywhere: bool = False) -> Scene:
     try:
         if path.is_dir():
             raise SceneError(f"cannot read scene {str(path)!r}: it is a folder")
-        data = path.read_bytes()
+        with path.open("rb") as handle:  # at most the limit: a device has no size
+            data = handle.read(_MAX_BYTES + 1)
     except OSError as error:
         raise SceneError(f"cannot read scene {str(path)!r}: {error.strerror}") from None
     if len(data) > _MAX_BYTES:
         raise SceneError(f"{path.name}: larger than {_MAX_BYTES // 1000} kB; split the scene")
     try:
-        text = data.decode("utf-8")
+        text = data.decode("utf-8-sig")  # a byte-order mark, as some editors write, is dropped
     except UnicodeDecodeError as error:
         raise SceneError(f"{path.name}: not UTF-8 text (byte {error.start})") from None
     return parse_scene(text, path.name, base=path.resolve().parent, tables_anywhere=tables_anywhere)

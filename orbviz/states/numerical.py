@@ -110,7 +110,7 @@ def _state(potential: Potential, l: int, k: int, x: np.ndarray, shift: float):
         if _nodes(u) == k:
             norm = math.sqrt(h * float(np.sum(r * u * u)))  # int u^2 dr = int u^2 r dx
             return float(value), r, u / norm
-    raise NoBoundState(f"no state with {k} radial nodes near {shift:.4g} hartree")
+    raise NoBoundState(f"the solver finds no level with {k} radial nodes near {shift:.4g} hartree")
 
 
 def _estimate(potential: Potential, l: int, k: int, r_max: float) -> float:
@@ -168,7 +168,13 @@ def solve_radial(
         energies, functions = [], []
         for m in (points, 2 * points - 1):  # nested grids: every other fine point is coarse
             x = np.linspace(math.log(r_min), math.log(outer), m)
-            value, r, u = _state(potential, l, k, x, shift)
+            try:
+                value, r, u = _state(potential, l, k, x, shift)
+            except NoBoundState as error:
+                raise NoBoundState(
+                    f"no bound state with n={n}, l={l} found in {potential.describe()}: {error} "
+                    "(the state may be unbound, or too small or too large for the solver's grid)"
+                ) from None
             lead = u[np.argmax(np.abs(u) > 1e-6 * np.abs(u).max())]
             energies.append(value)
             functions.append(u / r * (1.0 if lead > 0 else -1.0))

@@ -28,7 +28,7 @@ from orbviz.states.radial import (
     radial_function,
     radial_node_radii,
 )
-from orbviz.states.spec import Atom, is_bond, parse_spec, shorthand_shells, split_element
+from orbviz.states.spec import Atom, is_bond, parse_spec, split_element
 from orbviz.states.state import Centre, NodalSurfaces, Properties
 
 if TYPE_CHECKING:
@@ -61,9 +61,14 @@ def _normalised(
     merged: dict[tuple[int, int, int], complex], spec: str
 ) -> tuple[dict[tuple[int, int, int], complex], float, list[str]]:
     """Scale coefficients to unit norm (by the largest first, so no weight can overflow)."""
-    scale = max(abs(v) for v in merged.values())
-    if scale == 0 or not math.isfinite(scale):
-        raise SpecError(f"the superposition {spec!r} is zero: its terms cancel")
+    if not all(cmath.isfinite(v) for v in merged.values()):
+        raise SpecError(
+            f"the weights of {spec!r} overflow when added (beyond 1.8e308); they are "
+            "normalised anyway, so give smaller ones"
+        )
+    scale = max(max(abs(v.real), abs(v.imag)) for v in merged.values())  # abs() may overflow
+    if scale == 0:
+        raise SpecError(f"the superposition {spec!r} is zero: its weights are zero or cancel")
     scaled = {k: v / scale for k, v in merged.items()}
     norm = math.sqrt(sum(abs(v) ** 2 for v in scaled.values()))
     keep = {
@@ -168,9 +173,6 @@ class Orbital:
                 "use orbviz.state(...) for every kind of state"
             )
         symbol, body = split_element(spec)
-        shorthand: list[str] = []
-        if symbol is not None:  # with an element, a bare shell (C:2p) means its m = 0 member
-            body, shorthand = shorthand_shells(body)
         atoms = parse_spec(body)
         if real:
             atoms = [Atom(a.n, a.l, a.m, "real", a.coefficient) for a in atoms]
@@ -188,13 +190,7 @@ class Orbital:
             check_quantum_numbers(a.n, a.l, a.m)
         name, charge, note = screened_charge(symbol, [(a.n, a.l) for a in atoms], text)
         orbital = cls.from_atoms(atoms, Z=charge, mass_ratio=mass_ratio, spec=text)
-        notes = [note, *orbital.notes]
-        if shorthand:
-            notes.append(
-                f"{', '.join(shorthand)} taken as the m = 0 real orbital; name a component "
-                "(e.g. 2px, 3dxy) for another"
-            )
-        return replace(orbital, element=name, notes=tuple(notes))
+        return replace(orbital, element=name, notes=(note, *orbital.notes))
 
     @classmethod
     def from_atoms(

@@ -19,6 +19,7 @@ from orbviz.errors import ParameterError
 __all__ = [
     "YUKAWA_RANGE",
     "HARMONIC_RANGE",
+    "TABLE_BYTES",
     "Coulomb",
     "Harmonic",
     "Potential",
@@ -34,7 +35,7 @@ __all__ = [
 YUKAWA_RANGE = (0.05, 1e4)  # bohr
 HARMONIC_RANGE = (1e-3, 1e3)  # hartree
 _TABLE_V_MAX = 1e6  # |V| min(r, 1) in hartree (bohr): a Coulomb-like core up to charge 1e6
-_TABLE_BYTES = 50_000_000
+TABLE_BYTES = 50_000_000  # largest table file
 
 
 class Potential:
@@ -151,13 +152,20 @@ class Tabulated(Potential):
         """Read whitespace- or comma-separated columns r, V (lines starting with # skipped)."""
         path = Path(path)
         try:
-            if path.stat().st_size > _TABLE_BYTES:
-                raise ValueError(f"larger than {_TABLE_BYTES // 10**6} MB")
-            lines = path.read_text(encoding="utf-8").splitlines()
-            rows = [line.split("#", 1)[0] for line in lines]
+            with path.open("rb") as handle:  # at most the limit: /dev/zero has no size
+                raw = handle.read(TABLE_BYTES + 1)
+            if len(raw) > TABLE_BYTES:
+                raise ValueError(f"larger than {TABLE_BYTES // 10**6} MB")
+            rows = [line.split("#", 1)[0] for line in raw.decode("utf-8").splitlines()]
+            if not any(row.strip() for row in rows):
+                raise ValueError("no rows of numbers")
             comma = any("," in row for row in rows)  # sniff data rows only, not comments
             data = np.loadtxt(rows, delimiter="," if comma else None, ndmin=2)
-        except (OSError, ValueError, UnicodeDecodeError) as error:
+        except UnicodeDecodeError as error:
+            raise ParameterError(
+                f"cannot read potential table {path.name!r}: not UTF-8 text (byte {error.start})"
+            ) from None
+        except (OSError, ValueError) as error:
             reason = error.strerror if isinstance(error, OSError) and error.strerror else error
             raise ParameterError(f"cannot read potential table {path.name!r}: {reason}") from None
         if data.shape[1] != 2:

@@ -32,7 +32,6 @@ __all__ = [
     "is_bond",
     "parse_bond",
     "parse_spec",
-    "shorthand_shells",
     "split_element",
 ]
 
@@ -48,12 +47,11 @@ _STATE_HYBRID = re.compile(
 _COEF = re.compile(rf"(?:\((?P<paren>[^()]*)\)|(?P<num>(?:{_NUM}|inf(?:inity)?|nan)j?))\s*\*", re.I)
 _SIGN = re.compile(r"[+-]")
 _ELEMENT_PREFIX = re.compile(r"\s*([A-Za-z]{1,2})\s*:(.*)$", re.S)
-_BARE_SHELL = re.compile(r"(?<![\d,.])(\d+)([pdfPDF])(?![a-zA-Z0-9(])")
-_M0_LABEL = {"p": "z", "d": "z2", "f": "z3"}
-_BOND = re.compile(
-    r"\s*bond\s*\(\s*([^,()]+?)\s*,\s*([^,()]+?)\s*,\s*R\s*=\s*([0-9.eE+-]+)\s*,\s*([+-])\s*\)\s*$",
-    re.I,
-)
+# bond(...) is split on commas rather than matched whole: a pattern with optional spaces on
+# both sides of each part backtracks for hours on a spec with long runs of spaces.
+_BOND = re.compile(r"\s*bond\s*\((?P<inner>[^()]*)\)\s*", re.I)
+_BOND_LABEL = re.compile(r"[^,()]+")
+_BOND_DISTANCE = re.compile(r"R\s*=\s*([0-9.eE+-]+)", re.I)
 
 
 @dataclass(frozen=True)
@@ -95,14 +93,21 @@ def is_bond(spec: object) -> bool:
 def parse_bond(spec: str, /) -> BondSpec:
     """Read ``bond(A,B,R=2.0,+)``; the distance is checked for range by the caller."""
     match = _BOND.fullmatch(spec) if isinstance(spec, str) else None
-    if match is None:
+    parts = [p.strip() for p in match.group("inner").split(",")] if match else []
+    distance = _BOND_DISTANCE.fullmatch(parts[2]) if len(parts) == 4 else None
+    if (
+        distance is None
+        or not all(_BOND_LABEL.fullmatch(p) for p in parts[:2])
+        or parts[3] not in ("+", "-")
+    ):
         raise SpecError(f"bond needs the form bond(1s,1s,R=2.0,+), got {spec!r}")
     try:
-        distance = float(match.group(3))
+        value = float(distance.group(1))
     except ValueError:
-        raise SpecError(f"bond distance must be a number of bohr, got {match.group(3)!r}") from None
-    sign = 1.0 if match.group(4) == "+" else -1.0
-    return BondSpec(match.group(1), match.group(2), distance, sign)
+        raise SpecError(
+            f"bond distance must be a number of bohr, got {distance.group(1)!r}"
+        ) from None
+    return BondSpec(parts[0], parts[1], value, 1.0 if parts[3] == "+" else -1.0)
 
 
 def split_element(spec: str, /) -> tuple[str | None, str]:
@@ -113,18 +118,8 @@ def split_element(spec: str, /) -> tuple[str | None, str]:
     return match.group(1), match.group(2)
 
 
-def shorthand_shells(text: str, /) -> tuple[str, list[str]]:
-    """Read a bare shell (``2p``, ``3d``) as its m = 0 member; return the text and what changed.
-
-    Used after an element prefix, where ``C:2p`` is common shorthand.
-    """
-    found: list[str] = []
-
-    def expand(match: re.Match[str]) -> str:
-        found.append(match.group(0))
-        return match.group(0) + _M0_LABEL[match.group(2).lower()]
-
-    return _BARE_SHELL.sub(expand, text), found
+_SUBSHELL_TERM = re.compile(r"\d+[pdfPDF](?![a-zA-Z0-9(,])")
+_EXAMPLE = {"p": "z", "d": "xy", "f": "z3"}
 
 
 def _integer(text: str, name: str, spec: str) -> int:
@@ -222,6 +217,12 @@ def _state(text: str, pos: int, spec: str) -> tuple[list[Atom], int]:
     label = _STATE_LABEL.match(text, pos)
     if not label:
         rest = text[pos : pos + 12] or "end of text"
+        subshell = _SUBSHELL_TERM.match(text, pos)
+        if subshell:
+            raise SpecError(
+                f"{subshell.group(0)!r} in {spec!r} names a set of orbitals, not one: name a "
+                f"member (such as {subshell.group(0)}{_EXAMPLE[subshell.group(0)[-1].lower()]})"
+            )
         raise SpecError(
             f"expected an orbital such as 2pz or 4,2,-1 at position {pos} of {spec!r} "
             f"(found {rest!r})"
