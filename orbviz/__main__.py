@@ -1,7 +1,5 @@
 """``python -m orbviz`` runs the command line."""
 
-import sys
+from orbviz.cli import run
 
-from orbviz.cli import main
-
-sys.exit(main())
+run()

@@ -1,19 +1,24 @@
 """Command line: ``orbviz COMMAND ...``; :func:`main` is testable in-process.
 
 Exit status: 0 done, 1 a batch item failed (or a bug, reported in one line), 2 bad input,
-130 interrupted. Errors and notes go to stderr, one line each, prefixed ``orbviz:``.
+130 interrupted (SIGINT or SIGTERM: nothing new written; a batch keeps the items it finished).
+Errors and notes go to stderr, one line each, prefixed ``orbviz:``.
 """
 
 from __future__ import annotations
 
 import os
+import signal
 import sys
 from collections.abc import Sequence
+from typing import NoReturn
 
 from orbviz import _interrupt
 from orbviz.errors import OrbvizError
 
-__all__ = ["main"]
+__all__ = ["main", "run"]
+
+_MANY_WRITES = {"batch", "demo"}  # commands that put files in place item by item
 
 
 def _quiet_stdout() -> None:
@@ -31,16 +36,30 @@ def main(argv: Sequence[str] | None = None) -> int:
         _interrupt.restore(previous)
 
 
-def _run(argv: Sequence[str] | None) -> int:
-    from orbviz.cli.commands import COMMANDS
-    from orbviz.cli.parser import build_parser
+def run() -> NoReturn:
+    """Run the ``orbviz`` program: exit with the status of :func:`main`.
 
-    parser = build_parser(sys.argv[1:] if argv is None else argv)
-    try:
+    Once main has returned, the run is over and its status decided: SIGINT and SIGTERM are
+    ignored while the interpreter shuts down, rather than killing it with its outputs in place.
+    """
+    status = main()
+    for sig in (signal.SIGINT, signal.SIGTERM):
+        signal.signal(sig, signal.SIG_IGN)
+    sys.exit(status)
+
+
+def _run(argv: Sequence[str] | None) -> int:
+    try:  # an interrupt while the commands load is an interrupt too
+        from orbviz.cli.commands import COMMANDS
+        from orbviz.cli.parser import build_parser
+
+        parser = build_parser(sys.argv[1:] if argv is None else argv)
         args = parser.parse_args(argv)
         if not getattr(args, "command", None):
             parser.print_help()
             return 2
+        if args.command not in _MANY_WRITES:
+            _interrupt.one_write()
         status = COMMANDS[args.command](args)
         _interrupt.check()
         sys.stdout.flush()

@@ -2,9 +2,11 @@
 
 Every target is checked before any work (:func:`check_targets`). The new contents go to
 temporary files beside their targets; only when all are complete are they put in place, the old
-files first moved aside and restored if any step fails, so a failed or interrupted run leaves the
-old set exactly as it was and nothing new behind. A folder target (animation frames) is written
-as a whole new folder and swapped in, so it is replaced, not topped up.
+files first kept aside (a second hard link) and restored if any step fails, so a failed or
+interrupted run leaves the old set exactly as it was and nothing new behind. Each rename is
+atomic, so even a process killed mid-way (SIGKILL) leaves every target whole, old or new. A
+folder target (animation frames) is written as a whole new folder and swapped in, so it is
+replaced, not topped up.
 
 Temporary names carry the writer's process id, ``.NAME.PID.RANDOM.part``; those of a process that
 is gone (a killed run) are removed on the next write to the same path.
@@ -102,6 +104,21 @@ def _discard(path: Path) -> None:
             path.unlink(missing_ok=True)
 
 
+def _set_aside(target: Path) -> Path:
+    """Keep the old version of ``target`` under a temporary name, for a restore.
+
+    A file stays in place (a second hard link keeps its old version), so that a process killed
+    at any instant leaves the target whole, old or new. A folder is moved aside.
+    """
+    aside = _temporary(target)
+    aside.unlink()
+    try:
+        os.link(target, aside, follow_symlinks=False)
+    except OSError:  # a folder, or a file system without hard links
+        os.replace(target, aside)
+    return aside
+
+
 def _commit(temps: Sequence[Path], targets: Sequence[Path]) -> None:
     """Put every temporary in place; on any failure put every old target back."""
     _interrupt.check()  # an interrupt swallowed on the way here still stops the write
@@ -110,16 +127,16 @@ def _commit(temps: Sequence[Path], targets: Sequence[Path]) -> None:
     try:
         for target in targets:
             if target.exists() or target.is_symlink():
-                aside = _temporary(target)
-                aside.unlink()
-                os.replace(target, aside)
-                moved.append((target, aside))
+                moved.append((target, _set_aside(target)))
         for temp, target in zip(temps, targets, strict=True):
             os.replace(temp, target)
             placed.append(target)
+        _interrupt.placed()  # from here on an interrupt no longer undoes a one-write run
     except BaseException:
+        old = dict(moved)
         for target in placed:
-            _discard(target)
+            if target not in old or (target.is_dir() and not target.is_symlink()):
+                _discard(target)
         for target, aside in moved:
             with contextlib.suppress(OSError):
                 os.replace(aside, target)

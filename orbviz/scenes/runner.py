@@ -6,14 +6,18 @@ spawned worker processes, sized by cores and by memory. Any executor whose futur
 ``Client.get_executor()``. Items are plain data, and :func:`run_item` is a top-level function,
 so both pickle.
 
-Each item's files are written together, all or none, so the manifest never lists a file that
-is not whole. The batch holds the folder's lock while it runs; its own workers die with it
-(``PR_SET_PDEATHSIG`` on Linux, and a watchdog besides) and never write after it is gone.
+Each item's files are written together, all or none. Before any worker starts, the manifest
+lists every item to do as ``pending`` with the files it may write, so at any instant, even after
+a SIGKILL, every file in the folder is listed; an item is ``done`` only once its files are whole
+in place, with their checksums. The batch holds the folder's lock while it runs; its own workers
+ignore Ctrl-C (the batch stops them), die with it (``PR_SET_PDEATHSIG`` on Linux, and a watchdog
+besides) and never write after it is gone.
 """
 
 from __future__ import annotations
 
 import concurrent.futures as cf
+import contextlib
 import dataclasses
 import os
 import sys
@@ -37,11 +41,13 @@ _parent: int | None = None  # the batch process a worker serves (None outside a 
 
 def _die_with_parent(parent: int) -> None:
     """Worker initializer: end this worker the moment the batch process ends, however it ends."""
+    import signal
+
     global _parent
     _parent = parent
+    signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl-C reaches the batch, which stops us
     if sys.platform.startswith("linux"):
         import ctypes
-        import signal
 
         ctypes.CDLL(None, use_errno=True).prctl(1, int(signal.SIGKILL))  # PR_SET_PDEATHSIG
     if os.getppid() != parent:  # the parent was gone before the signal was armed
@@ -57,6 +63,35 @@ def _die_with_parent(parent: int) -> None:
 
 def _orphaned() -> bool:
     return _parent is not None and os.getppid() != _parent
+
+
+def _trim_heap() -> None:
+    """Free the item's garbage now and give the freed heap back to the system.
+
+    Matplotlib figures (the annotations) form reference cycles that hold their image buffers
+    until the cycle collector's rare full pass, so a worker's memory climbs between passes; and
+    without glibc's ``malloc_trim`` a worker keeps the high-water mark of its largest item for
+    its whole life, free inside the process but still counted as resident.
+    """
+    import gc
+
+    gc.collect()
+    if sys.platform.startswith("linux"):
+        import ctypes
+
+        with contextlib.suppress(OSError, AttributeError):  # a C library without malloc_trim
+            ctypes.CDLL(None).malloc_trim(0)
+
+
+def _rss_mb() -> float | None:
+    """Return the process's resident memory now, in MB (from /proc on Linux; else None)."""
+    try:
+        for line in Path("/proc/self/status").read_text(encoding="ascii").splitlines():
+            if line.startswith("VmRSS:"):
+                return round(int(line.split()[1]) / 1024, 1)
+    except (OSError, ValueError):
+        pass
+    return None
 
 
 def _item_files(item: Item, out: Path) -> tuple[dict[Path, bytes], dict[str, Any]]:
@@ -110,7 +145,8 @@ def run_item(item: Item, out_dir: str) -> dict[str, Any]:
     dict
         The manifest entry: ``name``, ``spec``, ``status`` (``done`` or ``failed``), ``files``
         (relative to ``out_dir``), ``thumbnail``, ``checksums`` (size and SHA-256 of each),
-        ``hash``, ``seconds``, and the isovalue and mesh statistics, or ``error``.
+        ``hash``, ``seconds``, ``rss_mb`` (the worker's resident memory after the item, in MB,
+        where the system tells it), and the isovalue and mesh statistics, or ``error``.
     """
     import hashlib
 
@@ -144,6 +180,8 @@ def run_item(item: Item, out_dir: str) -> dict[str, Any]:
     except Exception as error:  # noqa: BLE001 - one bad item must not stop the set
         entry.update(status="failed", error=f"{type(error).__name__}: {error}", files=[])
     entry["seconds"] = round(time.perf_counter() - start, 3)
+    _trim_heap()
+    entry["rss_mb"] = _rss_mb()
     return entry
 
 
@@ -185,6 +223,18 @@ def _pool(jobs: int) -> cf.Executor:
         initializer=_die_with_parent,
         initargs=(os.getpid(),),
     )
+
+
+def _pending(item: Item) -> dict[str, Any]:
+    """Return the entry of an item not finished yet, listing every file it may write."""
+    thumb = f"thumbs/{item.name}.png"
+    return {
+        "name": item.name,
+        "spec": item.spec,
+        "status": "pending",
+        "files": [f for f in item.files() if f != thumb],
+        "hash": item.digest,
+    }
 
 
 def _failed(item: Item, error: BaseException) -> dict[str, Any]:
@@ -267,6 +317,9 @@ def _run_locked(
             entries[item.name] = {**old, "status": "skipped"}
         else:
             todo.append(item)
+            # listed before any worker starts, so a batch killed at any instant leaves no
+            # unlisted file; a rerun redoes a pending item
+            entries[item.name] = _pending(item)
     manifest: dict[str, Any] = {"title": title, "items": []}
 
     def save() -> None:
