@@ -9,9 +9,19 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-__all__ = ["DEFAULTS", "LENGTH_UNITS", "LIMITS", "Defaults", "Limits"]
+__all__ = [
+    "BOHR_IN_ANGSTROM",
+    "DEFAULTS",
+    "DISPLAY_UNITS",
+    "LENGTH_UNITS",
+    "LIMITS",
+    "Defaults",
+    "Limits",
+]
 
 LENGTH_UNITS = ("bohr", "angstrom", "nm", "pm", "mm")  # mm: printable models
+DISPLAY_UNITS = ("angstrom", "bohr")  # lengths shown to a reader: info, plot axes, scale bars
+BOHR_IN_ANGSTROM = 0.529177210544  # CODATA 2022; checked against scipy.constants in the tests
 
 
 @dataclass(frozen=True)
@@ -22,6 +32,8 @@ class Defaults:
     ----------
     fraction : float
         Probability enclosed by the isosurface (0.9 is common teaching practice, no source).
+    display_units : str
+        Unit of the lengths shown to a reader (``info`` radii, plot axes, scale bars).
     grid : int
         Samples per axis of the mesh grid; meets the vertex-level accuracy targets of
         ../docs/meshes.md.
@@ -57,6 +69,7 @@ class Defaults:
     """
 
     fraction: float = 0.9
+    display_units: str = "angstrom"
     grid: int = 128
     animation_grid: int = 96
     box_coverage: float = 0.999

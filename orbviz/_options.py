@@ -60,6 +60,9 @@ class Rule:
     key : str or None
         The option's name in scene files and on the command line (``size`` for the field
         ``size_mm``); default the field name.
+    switch : bool
+        An on/off option whose default (None) is decided later: the command line gets both
+        ``--name`` and ``--no-name``.
     """
 
     help: str
@@ -69,6 +72,7 @@ class Rule:
     metavar: str | None = None
     negate: bool = False
     key: str | None = None
+    switch: bool = False
 
 
 def option(
@@ -81,9 +85,10 @@ def option(
     metavar: str | None = None,
     negate: bool = False,
     key: str | None = None,
+    switch: bool = False,
 ) -> Any:
     """Return a dataclass field with its :class:`Rule` (see the module docstring)."""
-    rule = Rule(help, convert, unit, flag, metavar, negate, key)
+    rule = Rule(help, convert, unit, flag, metavar, negate, key, switch)
     return dataclasses.field(default=default, metadata={"rule": rule})
 
 

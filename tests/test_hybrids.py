@@ -139,13 +139,14 @@ def test_whole_set_in_one_figure(tmp_path, capsys):
                 "0.5",
                 "--view",
                 "20,10",
+                "--overlay",
                 "-o",
                 str(out),
             ]
         )
         == 0
     )
-    assert "4 2sp3 hybrids" in capsys.readouterr().out
+    assert "4 orbitals in one panel" in capsys.readouterr().out
     with Image.open(out) as image:
         img = np.asarray(image.convert("RGB")).astype(float)
     # each of the four members shows in its own palette colour (hue match, any shading)

@@ -272,8 +272,10 @@ def test_demo_runs(tmp_path, capsys):
     assert status == 0
     manifest = json.loads((tmp_path / "demo" / "manifest.json").read_text())
     names = {e["name"] for e in manifest["items"]}
-    # the real orbitals of n = 1..3 (1 + 4 + 9), a complex 3d state, a mixture, a model
-    assert len(names) == 17 and {"3dz2", "3d-m1-complex", "sp3-like", "2pz-print"} <= names
+    # the real orbitals of n = 1..3 (1 + 4 + 9), two cutaways, a complex 3d state, a hybrid and
+    # a model
+    assert len(names) == 19
+    assert {"3dz2", "2s-cut", "3s-cut", "3d-m1-complex", "2sp3-1", "2pz-print"} <= names
     assert (tmp_path / "demo" / "2pz-print-model.3mf").exists()
     assert (tmp_path / "demo" / "index.html").exists()
 

@@ -15,7 +15,13 @@ import pytest
 PACKAGE = Path(__file__).resolve().parents[1] / "orbviz"
 # the pipeline's stages in order; a module may import from its own stage or earlier ones
 STAGES = ["base", "states", "levels", "surface", "export", "figures", "models", "scenes", "top"]
-BASE = {"orbviz._defaults", "orbviz.errors", "orbviz._options", "orbviz._interrupt"}
+BASE = {
+    "orbviz._defaults",
+    "orbviz.errors",
+    "orbviz._options",
+    "orbviz._interrupt",
+    "orbviz._progress",
+}
 # the one import that runs back up the pipeline, lazily: a mesh's convenience export() method
 ALLOWED_BACK = {("orbviz.surface.mesh", "orbviz.export")}
 

@@ -52,7 +52,16 @@ def add_options(parser: argparse.ArgumentParser, cls: type, *, skip: tuple[str, 
             continue
         flag = cli_flag(name, rule)
         common: dict[str, Any] = {"dest": f"{cls.__name__}.{name}", "default": argparse.SUPPRESS}
-        if isinstance(defaults[name], bool):
+        if rule.switch:  # on, off, or decided later
+            group.add_argument(flag, action="store_const", const=True, help=rule.help, **common)
+            group.add_argument(
+                "--no-" + flag[2:],
+                action="store_const",
+                const=False,
+                help=f"leave out what {flag} draws",
+                **common,
+            )
+        elif isinstance(defaults[name], bool):
             group.add_argument(
                 flag,
                 action="store_const",

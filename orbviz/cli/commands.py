@@ -45,13 +45,32 @@ def _json(data: dict[str, Any]) -> bytes:
     return (json.dumps(data, indent=2) + "\n").encode()
 
 
-def info(args: argparse.Namespace) -> int:
-    """Energy, nodes, radii and the enclosing isovalue."""
-    from orbviz.levels.report import format_summary, summarise
+def _states(specs: list[str], physics: Physics) -> tuple[list[Any], bool]:
+    """Return the states several specs name (sets expanded), and whether any was a set."""
+    from orbviz.states.make import set_members
 
-    physics = _physics(args)
-    summary = summarise(make_state(args.spec, physics), fraction=physics.fraction)
-    print(json.dumps(summary, indent=2) if args.json else format_summary(summary))
+    states, oriented = [], False
+    for text in specs:
+        oriented = oriented or set_members(text) is not None
+        states += make_states(text, physics)
+    return states, oriented
+
+
+def info(args: argparse.Namespace) -> int:
+    """Print energy, nodes, radii and the enclosing isovalue (a row per member of a set)."""
+    from orbviz.levels.report import ReportOptions, format_summary, format_table, summarise
+
+    physics, units = _physics(args), options_from(args, ReportOptions).units
+    states, oriented = _states(args.spec, physics)
+    summaries = [summarise(s, fraction=physics.fraction) for s in states]
+    if args.json:
+        print(
+            json.dumps(summaries[0] if len(states) == 1 and not oriented else summaries, indent=2)
+        )
+    elif len(states) == 1:
+        print(format_summary(summaries[0], units))
+    else:
+        print(format_table(summaries, units))
     return 0
 
 
@@ -93,45 +112,61 @@ def mesh(args: argparse.Namespace) -> int:
 
 
 def render(args: argparse.Namespace) -> int:
-    """Render a figure of the isosurface (or of a whole hybrid set) off-screen."""
+    """Render a figure of one orbital, or a sheet of several (sets expanded), off-screen."""
     from orbviz.export import check_output, write_files
-    from orbviz.figures.figure import figure
+    from orbviz.figures.figure import figure, sheet
     from orbviz.figures.options import FigureOptions
-    from orbviz.figures.sets import set_figure
+    from orbviz.figures.page import PAGE_SUFFIXES
 
     physics, options = _physics(args), options_from(args, FigureOptions)
-    (target,) = check_output(args.output, [".png"])
+    (target,) = check_output(args.output, list(PAGE_SUFFIXES))
     _keep(args, [target])
-    states = make_states(args.spec, physics)
-    if len(states) > 1:
-        with set_figure(states, options, fraction=physics.fraction) as fig:
-            write_files({target: fig.png()})
-        print(f"wrote {target}: the {len(states)} {args.spec.strip()} hybrids in one figure")
-        return 0
-    with figure(states[0], options, fraction=physics.fraction) as fig:
-        write_files({target: fig.png()})
-        notes = fig.mesh.notes
-    w, h = options.pixels
-    print(f"wrote {target} ({w}x{h}): {states[0].label}, {100 * physics.fraction:g}% isovalue")
-    for text in notes:
+    states, oriented = _states(args.spec, physics)
+    if len(states) == 1 and not oriented:
+        made = figure(states[0], options, fraction=physics.fraction)
+    else:
+        made = sheet(states, options, fraction=physics.fraction, oriented=oriented)
+    with made as fig:
+        write_files({target: fig.encode(target.suffix)})
+        notes = [n for p in fig.panels for n in p.mesh.notes]
+        w, h = fig.page_size
+        alt = fig.alt_text if args.alt_text else None
+    what = states[0].label if len(states) == 1 else f"{len(states)} orbitals"
+    what += " in one panel" if options.overlay and len(states) > 1 else ""
+    print(f"wrote {target} ({w}x{h}): {what}, {100 * physics.fraction:g}% isovalue")
+    if alt is not None:
+        print(alt)
+    for text in dict.fromkeys(notes):
         note(text)
     return 0
 
 
 def plot(args: argparse.Namespace) -> int:
-    """Plot a density slice or the radial distribution."""
+    """Plot slices or radial distributions of one or several orbitals."""
     from orbviz.export import check_output
     from orbviz.figures.options import PlotOptions
+    from orbviz.figures.page import PAGE_SUFFIXES
+    from orbviz.figures.plots import describe_plot, save_figure
     from orbviz.figures.plots import plot as make_plot
-    from orbviz.figures.plots import save_figure
+    from orbviz.states.make import set_members
 
     physics, options = _physics(args), options_from(args, PlotOptions)
-    (target,) = check_output(args.output, [".png", ".svg", ".pdf"])
+    (target,) = check_output(args.output, list(PAGE_SUFFIXES))
     _keep(args, [target])
-    state = make_state(args.spec, physics)
-    fig, _ = make_plot(state, options, fraction=physics.fraction)
-    save_figure(fig, target)
-    print(f"wrote {target}: {options.kind} plot of {state.label}")
+    labels = None
+    if options.kind == "radial":  # a subshell's members share one radial distribution
+        firsts = {(set_members(s) or [s])[0]: s.strip() for s in args.spec}
+        states, labels = [make_state(s, physics) for s in firsts], list(firsts.values())
+    else:
+        states, _ = _states(args.spec, physics)
+    one = states if len(states) > 1 else states[0]
+    fig, data = make_plot(one, options, fraction=physics.fraction, labels=labels)
+    alt = describe_plot(data, options.units)
+    save_figure(fig, target, alt_text=alt, title=options.title or "")
+    names = labels or [s.label for s in states]
+    print(f"wrote {target}: {options.kind} plot of {', '.join(names)}")
+    if args.alt_text:
+        print(alt)
     return 0
 
 
@@ -199,13 +234,19 @@ def animate(args: argparse.Namespace) -> int:
     return 0
 
 
-def _run_batch(scene: Any, out: str, args: argparse.Namespace) -> int:
+def _check_jobs(args: argparse.Namespace) -> None:
+    """Refuse, before any work, a worker count outside 1 to LIMITS.jobs_max."""
     from orbviz._defaults import LIMITS
     from orbviz.errors import OptionError
-    from orbviz.scenes.runner import run_scene
 
     if args.jobs is not None and not 1 <= args.jobs <= LIMITS.jobs_max:
-        raise OptionError("--jobs", f"expected a whole number from 1 to {LIMITS.jobs_max}")
+        raise OptionError(
+            "--jobs", f"expected a whole number from 1 to {LIMITS.jobs_max}, got {args.jobs}"
+        )
+
+
+def _run_batch(scene: Any, out: str, args: argparse.Namespace) -> int:
+    from orbviz.scenes.runner import run_scene
 
     manifest = run_scene(
         scene.items,
@@ -238,6 +279,7 @@ def batch(args: argparse.Namespace) -> int:
     """Every item of a scene file, in parallel, resumable, with a contact sheet."""
     from orbviz.scenes.load import load_scene
 
+    _check_jobs(args)
     out = _folder(args.output)
     return _run_batch(load_scene(args.scene, tables_anywhere=args.tables_anywhere), out, args)
 
@@ -248,6 +290,7 @@ def demo(args: argparse.Namespace) -> int:
 
     from orbviz.scenes.load import parse_scene
 
+    _check_jobs(args)
     out = _folder(args.output)
     text = files("orbviz").joinpath("data/demo.toml").read_text(encoding="utf-8")
     scene = parse_scene(text, "demo.toml")

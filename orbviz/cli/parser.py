@@ -33,13 +33,21 @@ class _Parser(argparse.ArgumentParser):
         raise UsageError(f"{message} (see '{self.prog} --help')")
 
 
-def _spec(parser: argparse.ArgumentParser) -> None:
-    """Add the orbital argument and the physics flags of a command that takes one."""
+def _spec(parser: argparse.ArgumentParser, *, many: bool = False) -> None:
+    """Add the orbital argument(s) and the physics flags of a command that takes them."""
     from orbviz.states.physics import Physics
 
-    parser.add_argument(
-        "spec", help="the orbital, e.g. 3dz2, 4,2,-1, '0.6*2s+0.8*2pz' or bond(1s,1s,R=2,+)"
-    )
+    if many:
+        parser.add_argument(
+            "spec",
+            nargs="+",
+            help="one or more orbitals or sets, e.g. 3dz2, 3d (the five real 3d orbitals), "
+            "2sp3, C:2p",
+        )
+    else:
+        parser.add_argument(
+            "spec", help="the orbital, e.g. 3dz2, 4,2,-1, '0.6*2s+0.8*2pz' or bond(1s,1s,R=2,+)"
+        )
     add_options(parser, Physics)
 
 
@@ -69,7 +77,10 @@ def _run_flags(parser: argparse.ArgumentParser) -> None:
 
 
 def _info(parser: argparse.ArgumentParser) -> None:
-    _spec(parser)
+    from orbviz.levels.report import ReportOptions
+
+    _spec(parser, many=True)
+    add_options(parser, ReportOptions)
     parser.add_argument(
         "--json", action="store_true", help="print one JSON object (keys in docs/info.md)"
     )
@@ -87,17 +98,25 @@ def _mesh(parser: argparse.ArgumentParser) -> None:
 def _render(parser: argparse.ArgumentParser) -> None:
     from orbviz.figures.options import FigureOptions
 
-    _spec(parser)
-    _output(parser, "output: .png", "FILE.png")
+    _spec(parser, many=True)
+    _output(parser, "output: .png, .tiff, .pdf or .svg (labels as vector text in PDF and SVG)")
     add_options(parser, FigureOptions)
+    _alt_text(parser)
+
+
+def _alt_text(parser: argparse.ArgumentParser) -> None:
+    parser.add_argument(
+        "--alt-text", action="store_true", help="also print the figure's alt text (its description)"
+    )
 
 
 def _plot(parser: argparse.ArgumentParser) -> None:
     from orbviz.figures.options import PlotOptions
 
-    _spec(parser)
-    _output(parser, "output: .png .svg .pdf")
+    _spec(parser, many=True)
+    _output(parser, "output: .png, .tiff, .pdf or .svg (text stays text in PDF and SVG)")
     add_options(parser, PlotOptions)
+    _alt_text(parser)
 
 
 def _model(parser: argparse.ArgumentParser) -> None:
@@ -145,7 +164,7 @@ _COMMANDS: dict[str, tuple[str, str, bool, Callable[[argparse.ArgumentParser], N
     "info": (
         "energy, nodes, radii and the enclosing isovalue of an orbital",
         "Energy, nodes, radii and the isovalue enclosing --fraction of the probability. "
-        "Atomic units: bohr, hartree (eV from CODATA).",
+        "Energies in hartree (eV from CODATA), radii in --units (--json: atomic units).",
         True,
         _info,
     ),
@@ -159,17 +178,20 @@ _COMMANDS: dict[str, tuple[str, str, bool, Callable[[argparse.ArgumentParser], N
         _mesh,
     ),
     "render": (
-        "a publication figure of the isosurface, rendered off-screen to PNG",
+        "a publication figure of isosurfaces, rendered off-screen (PNG, TIFF, PDF, SVG)",
         "An orthographic, phase-coloured figure of the isosurface enclosing --fraction, "
-        "rendered without a display. Complex states get a phase wheel. A hybrid set "
-        "(2sp3) is drawn in one figure, each member in its own colour.",
+        "rendered without a display, with a key of the phases (a phase wheel for complex "
+        "states). Several specs or a set (3d, 2p, 2sp3) make one sheet of panels on one "
+        "scale; --overlay draws a set in one panel, each member in its own colour. --width "
+        "and --dpi size it for print.",
         True,
         _render,
     ),
     "plot": (
-        "2D companions: a density slice or the radial distribution (PNG, SVG, PDF)",
+        "2D companions: a density slice or the radial distribution (PNG, TIFF, PDF, SVG)",
         "A density slice through the nucleus with the isovalue and nodes, or the radial "
-        "distribution with nodes, <r> and the most probable radius.",
+        "distribution with nodes, <r> and the most probable radius. Several specs (or a set "
+        "such as 3d) make slice panels on one scale, or radial curves on one axes.",
         True,
         _plot,
     ),

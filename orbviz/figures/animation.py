@@ -9,9 +9,9 @@ import numpy as np
 
 from orbviz._defaults import DEFAULTS
 from orbviz._options import checked
-from orbviz.figures.figure import Figure, figure
+from orbviz._progress import progress
+from orbviz.figures.figure import Figure, Panel, figure
 from orbviz.figures.options import AnimationOptions, FigureOptions
-from orbviz.figures.overlays import add_bodies
 from orbviz.levels.grid import box_half_width
 from orbviz.levels.isovalue import Isovalue, enclosing_isovalue
 from orbviz.states.dynamics import Beat
@@ -106,7 +106,7 @@ def animate(
     images, kept = [], []
     fig: Figure | None = None
     try:
-        for t in times:
+        for t in progress(times, total=len(times), desc="orbviz animate", unit="frame"):
             moved = state.evolve(t)
             # the shared level's reach is sampled at four times, not this one: no window
             mesh = build_mesh(
@@ -119,10 +119,8 @@ def animate(
             if fig is None:  # one plotter for all frames: the EGL context opens once
                 fig = figure(moved, frame_looks, fraction=fraction, mesh=mesh)
             else:
-                for body in fig.mesh.bodies:
-                    fig.plotter.remove_actor(body.name)
-                fig.mesh, fig.options = mesh, frame_looks
-                add_bodies(fig, mesh.bodies)
+                fig.replace_panel(0, Panel(moved, mesh))
+                fig.options = frame_looks
             images.append(fig.image())
             if keep_bodies:
                 kept.append(mesh.bodies)

@@ -1,12 +1,12 @@
-"""Publication figures rendered off-screen with PyVista (VTK).
+"""Publication figures rendered off-screen with PyVista (VTK): one orbital, or a sheet of them.
 
-A figure is an orthographic view of the phase-coloured bodies. The camera looks at the
-nucleus, framed so that the orbital fills about 80% of the image (or a fixed extent, so that
-figures of different orbitals share a scale). Lighting is three-point, shading smooth from the
-bodies' gradient normals, and anti-aliasing multisampled. Transparent images are made by
-difference matting (the scene on black and on white), so edges carry true partial alpha with no
-halo of either background. The scale bar, title and phase wheel are drawn on the finished image
-(:mod:`orbviz.figures.annotate`).
+A figure is a page of panels (:mod:`orbviz.figures.page`), each an orthographic view of one
+state's phase-coloured bodies. Every panel shares one camera, one lighting and one scale: the
+view is framed so that the largest surface fills about 80% of a panel, or to a fixed extent.
+Lighting is three-point, shading smooth from the bodies' gradient normals, and anti-aliasing
+multisampled. Transparent images are made by difference matting (the scene on black and on
+white), so edges carry true partial alpha with no halo. Labels, the phase key and the scale bar
+are vector text drawn on the page; the alt text is made from the physics (:mod:`.alt`).
 
 A :class:`Figure` holds an off-screen render window: close it when done (it is a context
 manager), or many figures in one process grow without bound.
@@ -15,6 +15,7 @@ manager), or many figures in one process grow without bound.
 from __future__ import annotations
 
 import os
+from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
 from types import TracebackType
@@ -22,18 +23,21 @@ from typing import Any
 
 import numpy as np
 
-from orbviz._defaults import DEFAULTS
+from orbviz._defaults import DEFAULTS, LIMITS
 from orbviz._options import checked
-from orbviz.errors import ParameterError
-from orbviz.figures.annotate import annotate
+from orbviz._progress import progress
+from orbviz.errors import OptionError, ParameterError
 from orbviz.figures.camera import camera_axes, place_lights
-from orbviz.figures.options import FigureOptions
-from orbviz.figures.overlays import add_bodies, add_caps, add_nodes
+from orbviz.figures.options import SET_VIEW, VIEWS, FigureOptions
+from orbviz.figures.overlays import add_axis_lines, add_bodies, add_caps, add_members, add_nodes
+from orbviz.figures.page import PAGE_SUFFIXES, Page, PanelImage, geometry
 from orbviz.states.state import State
 from orbviz.surface.mesh import OrbitalMesh, build_mesh
 from orbviz.surface.options import MeshOptions
 
-__all__ = ["Figure", "figure", "mesh_options"]
+__all__ = ["Figure", "Panel", "figure", "mesh_options", "sheet"]
+
+AXIS_REACH = 1.15  # axes through the nucleus run this far beyond the largest surface
 
 
 def _offscreen() -> None:
@@ -42,37 +46,82 @@ def _offscreen() -> None:
 
 
 def mesh_options(options: FigureOptions) -> MeshOptions:
-    """Return the mesh a figure with these options shows: its grid and colours."""
+    """Return the mesh options a figure with these options shows: its grid and colours."""
     return MeshOptions(grid=options.grid, colors=options.colors)
 
 
 @dataclass
-class Figure:
-    """A composed figure: the PyVista plotter, and what went into it.
+class Panel:
+    """One panel of a figure: a state's surface, and what is drawn beside it.
 
     Attributes
     ----------
-    plotter : pyvista.Plotter
-        The off-screen scene, for further changes before :meth:`image`.
+    state : State
+        The state shown.
     mesh : OrbitalMesh
-        The bodies shown.
+        Its bodies.
+    label : str
+        The panel's label ("(a) 3dxy"), or empty.
+    outer : OrbitalMesh or None
+        A translucent surface of a larger fraction.
+    members : list of OrbitalMesh
+        A set drawn in this one panel, each member in its own colour (then ``mesh`` is the
+        first member's).
+    overlays : dict
+        Actor names by kind (``radial_nodes``, ``angular_nodes``, ``outer``, ``caps``,
+        ``axis_lines``, ``members``) while the panel is shown.
+    """
+
+    state: State
+    mesh: OrbitalMesh
+    label: str = ""
+    outer: OrbitalMesh | None = None
+    members: list[OrbitalMesh] = field(default_factory=list)
+    overlays: dict[str, list[str]] = field(default_factory=dict)
+
+    @property
+    def shown(self) -> list[OrbitalMesh]:
+        """Every mesh the panel draws."""
+        meshes = self.members or [self.mesh]
+        return meshes + ([self.outer] if self.outer is not None else [])
+
+
+@dataclass
+class Figure:
+    """A composed figure: the off-screen plotter, the panels, and how they are laid out.
+
+    Attributes
+    ----------
+    plotter : pyvista.Plotter or None
+        The off-screen scene (None once closed).
+    panels : list of Panel
+        What each panel shows.
     options : FigureOptions
         How it was set up.
-    overlays : dict
-        Overlay actor names by kind: ``radial_nodes``, ``angular_nodes``, ``outer``, ``caps``.
+    layout : (int, int)
+        Columns and rows of panels.
     half_height : float
-        Half the height of the view in bohr (orthographic).
+        Half the height of every panel's view, bohr (orthographic).
+    axis_lines : bool
+        Axes through the nucleus are drawn.
+    view : (float, float)
+        Camera azimuth and elevation, degrees (the options' view, or the default for the set).
     """
 
     plotter: Any
-    mesh: OrbitalMesh
+    panels: list[Panel]
     options: FigureOptions
-    overlays: dict[str, list[str]] = field(default_factory=dict)
+    layout: tuple[int, int] = (1, 1)
     half_height: float = 1.0
+    axis_lines: bool = False
+    view: tuple[float, float] = (35.0, 25.0)
+    _current: int = -1
 
     def __repr__(self) -> str:
-        w, h = self.options.pixels
-        return f"Figure({self.mesh.state.label!r}, {w}x{h}, view {self.options.view})"
+        page = geometry(self.options, *self.layout)
+        w, h = page.width, page.height
+        labels = ", ".join(p.state.label for p in self.panels)
+        return f"Figure({labels}, {w}x{h}, layout {self.layout[0]}x{self.layout[1]})"
 
     def __enter__(self) -> Figure:
         return self
@@ -85,6 +134,23 @@ class Figure:
     ) -> None:
         self.close()
 
+    @property
+    def page_size(self) -> tuple[int, int]:
+        """Width and height of the page in pixels."""
+        page = geometry(self.options, *self.layout)
+        return page.width, page.height
+
+    @property
+    def mesh(self) -> OrbitalMesh:
+        """The first panel's mesh."""
+        return self.panels[0].mesh
+
+    @property
+    def overlays(self) -> dict[str, list[str]]:
+        """The overlays of the panel shown last (the first, once rendered)."""
+        self._show(0 if self._current < 0 else self._current)
+        return self.panels[self._current].overlays
+
     def close(self) -> None:
         """Release the render window and its memory; the figure cannot render after this."""
         if self.plotter is not None:
@@ -92,15 +158,71 @@ class Figure:
             self.plotter.deep_clean()
             self.plotter = None
 
-    def _screenshot(self, background: Any) -> np.ndarray:
+    # --------------------------------------------------------------- panels
+    def replace_panel(self, k: int, panel: Panel) -> None:
+        """Show ``panel`` in place of panel k (the frames of an animation share one window)."""
+        if k == self._current:
+            self._hide()
+        self.panels[k] = panel
+
+    def _hide(self) -> None:
+        if self._current >= 0 and self.plotter is not None:
+            old = self.panels[self._current]
+            for names in old.overlays.values():
+                for name in names:
+                    self.plotter.remove_actor(name)
+            old.overlays = {}
+        self._current = -1
+
+    def _show(self, k: int) -> None:
+        """Put panel k's actors on the plotter, taking the shown panel's away."""
+        if k == self._current:
+            return
         if self.plotter is None:
             raise ParameterError("this figure was closed; make a new one")
+        self._hide()
+        panel, prefix = self.panels[k], f"p{k}-"
+        options, plotter = self.options, self.plotter
+        if panel.members:
+            panel.overlays["members"] = add_members(plotter, panel.members, prefix=prefix)
+        else:
+            panel.overlays["bodies"] = add_bodies(
+                plotter, options, panel.mesh.bodies, prefix=prefix
+            )
+        if options.cut:
+            panel.overlays["caps"] = add_caps(plotter, options, panel.mesh, prefix=prefix)
+        if panel.outer is not None:
+            panel.overlays["outer"] = add_bodies(
+                plotter, options, panel.outer.bodies, prefix=f"{prefix}outer-", opacity=0.18
+            )
+        reach = self._reach()
+        if options.nodes:
+            panel.overlays.update(
+                add_nodes(plotter, panel.state.nodal_surfaces(), reach, prefix=prefix)
+            )
+        if self.axis_lines:
+            panel.overlays["axis_lines"] = add_axis_lines(
+                plotter, AXIS_REACH * reach, prefix=prefix
+            )
+        self._current = k
+
+    def _reach(self) -> float:
+        if self.options.extent is not None:
+            return self.options.extent
+        return max(
+            float(np.abs(b.vertices).max()) for p in self.panels for m in p.shown for b in m.bodies
+        )
+
+    def _screenshot(self, background: Any) -> np.ndarray:
         self.plotter.set_background(background)
         self.plotter.render()
         return np.asarray(self.plotter.screenshot(return_img=True))
 
-    def image(self) -> np.ndarray:
-        """Render to an (H, W, 4) uint8 RGBA array with the 2D annotations drawn on."""
+    def panel_image(self, k: int) -> np.ndarray:
+        """Render panel k to an (H, W, 4) uint8 RGBA array (no annotations)."""
+        if self.plotter is None:
+            raise ParameterError("the figure is closed: make a new one to render again")
+        self._show(k)
         if self.options.transparent:
             black = self._screenshot("black").astype(np.float64) / 255.0
             white = self._screenshot("white").astype(np.float64) / 255.0
@@ -109,53 +231,102 @@ class Figure:
             colour = np.where(
                 alpha[..., None] > 1e-6, black / np.maximum(alpha[..., None], 1e-6), 0
             )
-            img = np.round(255 * np.dstack([np.clip(colour, 0, 1), alpha])).astype(np.uint8)
-        else:
-            from PIL import ImageColor
+            return np.round(255 * np.dstack([np.clip(colour, 0, 1), alpha])).astype(np.uint8)
+        from PIL import ImageColor
 
-            rgb = self._screenshot(ImageColor.getrgb(self.options.background)[:3])
-            img = np.dstack([rgb, np.full(rgb.shape[:2], 255, np.uint8)])
-        return annotate(
-            img,
-            title=self.options.title,
-            scale_bar=self.options.scale_bar,
-            bohr_per_pixel=2.0 * self.half_height / img.shape[0],
-            phase_wheel=not self.mesh.state.is_real,
-        )
+        rgb = self._screenshot(ImageColor.getrgb(self.options.background)[:3])
+        return np.dstack([rgb, np.full(rgb.shape[:2], 255, np.uint8)])
+
+    # --------------------------------------------------------------- pages and files
+    @property
+    def alt_text(self) -> str:
+        """A description of the figure from the physics, for readers who cannot see it."""
+        from orbviz.figures.alt import describe_figure
+
+        return describe_figure(self)
+
+    def page(self, *, show_progress: bool = True) -> Page:
+        """Render every panel and lay them out with their labels, key and scale bar."""
+        steps: Iterable[tuple[int, Panel]] = enumerate(self.panels)
+        long = len(self.panels) > 2 or self.options.scale >= 2 or self.options.width is not None
+        if show_progress and long:
+            steps = progress(steps, total=len(self.panels), desc="orbviz render", unit="panel")
+        images = [
+            PanelImage(
+                self.panel_image(k),
+                self.half_height,
+                p.label,
+                not p.state.is_real and not p.members,
+            )
+            for k, p in steps
+        ]
+        return Page(images, self.options, self.layout, alt_text=self.alt_text)
+
+    def image(self) -> np.ndarray:
+        """Render to an (H, W, 4) uint8 RGBA array with the annotations drawn on."""
+        return self.page().rgba()
+
+    def encode(self, suffix: str = ".png") -> bytes:
+        """Render to the bytes of a PNG, TIFF, PDF or SVG file."""
+        if suffix.lower() not in PAGE_SUFFIXES:
+            raise ParameterError(
+                f"figures are written as {', '.join(PAGE_SUFFIXES)}, not {suffix!r}"
+            )
+        return self.page().encode(suffix)
 
     def png(self, *, size: tuple[int, int] | None = None) -> bytes:
-        """Render to PNG bytes (shrunk to fit ``size``, if given, as a thumbnail)."""
-        import io
+        """Render to PNG bytes; with ``size``, a thumbnail with panels that size."""
+        if size is None:
+            return self.encode(".png")
+        return self.thumbnail(size)
 
-        from PIL import Image
+    def thumbnail(self, size: tuple[int, int] = (320, 240), *, dpi: int = 150) -> bytes:
+        """Render a PNG whose panels are ``size`` pixels, with text sized for it.
 
-        picture = Image.fromarray(self.image(), "RGBA")
-        if size is not None:
-            picture.thumbnail(size)
-        buffer = io.BytesIO()
-        picture.save(buffer, format="PNG")
-        return buffer.getvalue()
+        The page is laid out as if printed ``size[0]`` pixels wide at ``dpi``, so the labels,
+        key and scale bar keep their point sizes (8 pt is 17 pixels at 150 dpi) instead of
+        shrinking with the image. The render window is reused and restored afterwards.
+        """
+        if self.plotter is None:
+            raise ParameterError("the figure is closed: make a new one to render again")
+        import dataclasses
+
+        saved, window = self.options, list(self.plotter.window_size)
+        cols = self.layout[0]
+        self.options = dataclasses.replace(
+            saved, size=size, scale=1.0, width=cols * size[0] / dpi * 25.4, height=None, dpi=dpi
+        )
+        try:
+            self._hide()
+            self.plotter.window_size = list(geometry(self.options, *self.layout).panel)
+            return self.page(show_progress=False).encode(".png")
+        finally:
+            self._hide()
+            self.options = saved
+            self.plotter.window_size = window
 
     def save(self, path: str | os.PathLike[str]) -> Path:
-        """Render and write a PNG, all or nothing; returns the path."""
+        """Render and write a PNG, TIFF, PDF or SVG (by suffix), all or nothing."""
         from orbviz.export import check_output, write_files
 
-        (target,) = check_output(path, [".png"])
-        write_files({target: self.png()})
+        (target,) = check_output(path, list(PAGE_SUFFIXES))
+        write_files({target: self.encode(target.suffix)})
         return target
 
 
-def _frame(fig: Figure, vertices: np.ndarray, extent: float | None) -> float:
-    """Point an orthographic camera at the nucleus; return the half height of the view."""
-    toward, right, up = camera_axes(fig.options.view)
-    width, height = fig.options.pixels
-    reach = float(np.abs(vertices).max()) if extent is None else extent
-    if extent is None:
+def _frame(fig: Figure, vertices: np.ndarray) -> float:
+    """Point an orthographic camera at the nucleus; return the half height of every panel."""
+    options = fig.options
+    toward, right, up = camera_axes(fig.view)
+    panel_w, panel_h = geometry(options, *fig.layout).panel
+    aspect = panel_h / panel_w
+    reach = float(np.abs(vertices).max()) if options.extent is None else options.extent
+    if options.extent is None:
         half_w = np.abs(vertices @ right).max()
         half_h = np.abs(vertices @ up).max()
-        half_height = 1.2 * max(half_h, half_w * height / width)
+        half_height = 1.2 * max(half_h, half_w * aspect)
     else:
-        half_height = 1.05 * extent * max(1.0, height / width)
+        half_height = 1.05 * options.extent * max(1.0, aspect)
     camera = fig.plotter.camera
     fig.plotter.enable_parallel_projection()
     camera.focal_point = (0.0, 0.0, 0.0)
@@ -163,8 +334,72 @@ def _frame(fig: Figure, vertices: np.ndarray, extent: float | None) -> float:
     camera.up = tuple(up)
     camera.parallel_scale = half_height
     camera.clipping_range = (1e-3, 40 * max(reach, 1.0))
-    place_lights(fig.plotter, fig.options.lighting, toward, right, up)
+    place_lights(fig.plotter, options.lighting, toward, right, up)
     return float(half_height)
+
+
+def _layout(count: int, options: FigureOptions) -> tuple[int, int]:
+    if options.layout is not None:
+        cols, rows = options.layout
+        if cols * rows < count:
+            raise OptionError("layout", f"{cols}x{rows} holds {cols * rows} panels, not {count}")
+        return cols, rows
+    cols = {1: 1, 2: 2, 3: 3, 4: 2, 5: 3, 6: 3, 9: 3}.get(count, 4)
+    return cols, -(-count // cols)
+
+
+def _default_view(states: Sequence[State], oriented: bool) -> tuple[float, float]:
+    """Return the set view for d and f sets that differ by orientation, else iso."""
+    atoms = [s.eigenstate for s in states]
+    if oriented and all(a is not None and a.l >= 2 for a in atoms):
+        return SET_VIEW
+    return VIEWS["iso"]
+
+
+def _compose(
+    panels: list[Panel], options: FigureOptions, axis_lines: bool, oriented: bool = False
+) -> Figure:
+    """Open the render window and frame every panel at one scale."""
+    cols, rows = _layout(len(panels), options)
+    page = geometry(options, cols, rows)
+    if page.width * page.height / 1e6 > LIMITS.image_megapixels:
+        raise OptionError(
+            "size",
+            f"the page would be {page.width * page.height / 1e6:.0f} megapixels; at most "
+            f"{LIMITS.image_megapixels:g}",
+        )
+    panel_pixels = list(page.panel)
+    _offscreen()
+    import pyvista
+
+    plotter = pyvista.Plotter(off_screen=True, window_size=panel_pixels, lighting="none")
+    fig = Figure(plotter, panels, options, (cols, rows), axis_lines=axis_lines)
+    fig.view = options.view or _default_view([p.state for p in panels], oriented)
+    try:
+        vertices = np.vstack([b.vertices for p in panels for m in p.shown for b in m.bodies])
+        if axis_lines:  # frame the axes and their labels too
+            tips = AXIS_REACH * 1.12 * fig._reach() * np.eye(3)
+            vertices = np.vstack([vertices, tips, -tips])
+        fig.half_height = _frame(fig, vertices)
+        plotter.enable_anti_aliasing("msaa", multi_samples=8)
+        if options.axes and not axis_lines:  # axes through the nucleus make the triad redundant
+            plotter.add_axes(  # type: ignore[call-arg]
+                line_width=3, labels_off=False, color="black", viewport=(0, 0, 0.16, 0.2)
+            )
+    except BaseException:
+        fig.close()
+        raise
+    return fig
+
+
+def _outer(state: State, options: FigureOptions, fraction: float) -> OrbitalMesh | None:
+    if options.outer is None:
+        return None
+    if not options.outer > fraction:
+        raise OptionError("outer", f"{options.outer:g} must exceed the fraction {fraction:g}")
+    return build_mesh(
+        state, mesh_options(options), fraction=options.outer, half_width=options.extent
+    )
 
 
 def figure(
@@ -182,7 +417,7 @@ def figure(
     state : State
         Any kind of state.
     options : FigureOptions, optional
-        Looks, overlays and framing (checked here by their rules).
+        Looks, overlays, framing and page (checked here by their rules).
     fraction : float, default: 0.9
         Probability enclosed by the surface.
     mesh : OrbitalMesh, optional
@@ -192,39 +427,60 @@ def figure(
     -------
     Figure
         ``figure.plotter`` is a ``pyvista.Plotter`` to adjust further; ``figure.image()``
-        renders it, ``figure.save(path)`` writes a PNG. Close it when done.
+        renders it, ``figure.save(path)`` writes PNG, TIFF, PDF or SVG. Close it when done.
     """
     opts = checked(options or FigureOptions())
-    if opts.outer is not None and not opts.outer > fraction:
-        raise ParameterError(f"outer: {opts.outer:g} must exceed the fraction {fraction:g}")
+    outer = _outer(state, opts, fraction)
     if mesh is None:
         mesh = build_mesh(state, mesh_options(opts), fraction=fraction, half_width=opts.extent)
-    shown = list(mesh.bodies)
-    outer = None
-    if opts.outer is not None:
-        outer = build_mesh(state, mesh_options(opts), fraction=opts.outer, half_width=opts.extent)
-        shown += outer.bodies
-    _offscreen()
-    import pyvista
+    panel = Panel(state, mesh, outer=outer)
+    return _compose([panel], opts, bool(opts.axis_lines))
 
-    plotter = pyvista.Plotter(off_screen=True, window_size=list(opts.pixels), lighting="none")
-    fig = Figure(plotter, mesh, opts)
-    try:
-        add_bodies(fig, mesh.bodies)
-        if opts.cut:
-            add_caps(fig, opts.cut)
-        if outer is not None:
-            fig.overlays["outer"] = add_bodies(fig, outer.bodies, prefix="outer-", opacity=0.18)
-        vertices = np.vstack([b.vertices for b in shown])
-        if opts.nodes:
-            add_nodes(fig, float(np.abs(vertices).max()) if opts.extent is None else opts.extent)
-        fig.half_height = _frame(fig, vertices, opts.extent)
-        plotter.enable_anti_aliasing("msaa", multi_samples=8)
-        if opts.axes:
-            plotter.add_axes(  # type: ignore[call-arg]
-                line_width=3, labels_off=False, color="black", viewport=(0, 0, 0.16, 0.2)
-            )
-    except BaseException:
-        fig.close()
-        raise
-    return fig
+
+def _label(k: int, state: State, style: str) -> str:
+    if style == "none":
+        return ""
+    letter = f"({chr(ord('a') + k)}) " if style == "letters" and k < 26 else ""
+    return f"{letter}{state.label}"
+
+
+def sheet(
+    states: Sequence[State],
+    /,
+    options: FigureOptions | None = None,
+    *,
+    fraction: float = DEFAULTS.fraction,
+    oriented: bool = False,
+) -> Figure:
+    """Compose one figure of several states: a sheet of panels, or one panel (``overlay``).
+
+    Parameters
+    ----------
+    states : sequence of State
+        The states, in panel order.
+    options : FigureOptions, optional
+        As for :func:`figure`, with ``layout``, ``labels`` and ``overlay``.
+    fraction : float, default: 0.9
+        Probability enclosed by every surface.
+    oriented : bool, default: False
+        The states are a set that differs by orientation (2p, 3d, a hybrid set): unless the
+        options say otherwise, axes are drawn through the nucleus.
+
+    Returns
+    -------
+    Figure
+        Every panel shares one camera, one lighting and one scale (one sampling box).
+    """
+    from orbviz.figures.sets import set_meshes
+
+    opts = checked(options or FigureOptions())
+    meshes = set_meshes(states, opts, fraction=fraction)
+    axis_lines = oriented if opts.axis_lines is None else opts.axis_lines
+    if opts.overlay:
+        panels = [Panel(states[0], meshes[0], members=meshes)]
+    else:
+        panels = [
+            Panel(s, m, _label(k, s, opts.labels), outer=_outer(s, opts, fraction))
+            for k, (s, m) in enumerate(zip(states, meshes, strict=True))
+        ]
+    return _compose(panels, opts, axis_lines, oriented)

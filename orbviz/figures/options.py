@@ -3,26 +3,32 @@
 from __future__ import annotations
 
 import math
+import re
 from dataclasses import dataclass
 from typing import Any
 
-from orbviz._defaults import DEFAULTS, LIMITS
+from orbviz._defaults import DEFAULTS, DISPLAY_UNITS, LIMITS
 from orbviz._options import boolean, choice, integer, number, option, text
+from orbviz.errors import OptionError
 from orbviz.surface.colors import ColorPair
 from orbviz.surface.options import colors_option, grid_option
 
 __all__ = [
     "LIGHTING",
+    "SET_VIEW",
     "VIEWS",
     "AnimationOptions",
     "FigureOptions",
     "PlotOptions",
     "background_colour",
+    "grid_layout",
     "pixel_size",
+    "print_length",
     "view_angles",
 ]
 
 VIEWS = {"iso": (35.0, 25.0), "x": (0.0, 0.0), "y": (90.0, 0.0), "z": (0.0, 90.0)}
+SET_VIEW = (20.0, 55.0)  # d and f sets: lobes between the axes and along them look apart
 LIGHTING = ("soft", "studio", "flat")
 CUTS = ("half", "quarter")
 
@@ -82,6 +88,42 @@ def background_colour(raw: Any) -> str:
     raise ValueError(f"expected a colour name or #RRGGBB, got {raw!r}")
 
 
+_LENGTH = re.compile(r"\s*([0-9]*\.?[0-9]+(?:e[+-]?\d+)?)\s*(mm|cm|in)\s*$", re.I)
+_PER_INCH = {"mm": 25.4, "cm": 2.54, "in": 1.0}
+
+
+def print_length(raw: Any) -> float | None:
+    """Read a printed length, ``85mm``, ``8.5cm`` or ``3.35in`` (a bare number is mm), in mm."""
+    rule = "expected a printed length from 10 mm to 1000 mm, like 85mm, 8.5cm or 3.35in"
+    if raw is None or (isinstance(raw, str) and raw.strip().lower() == "none"):
+        return None
+    if isinstance(raw, (int, float)) and not isinstance(raw, bool):
+        mm = float(raw)
+    elif isinstance(raw, str) and _LENGTH.fullmatch(raw):
+        match = _LENGTH.fullmatch(raw)
+        assert match is not None
+        mm = float(match.group(1)) * 25.4 / _PER_INCH[match.group(2).lower()]
+    else:
+        raise ValueError(f"{rule}, got {raw!r}")
+    if not (math.isfinite(mm) and 10.0 <= mm <= 1000.0):
+        raise ValueError(f"{rule}, got {raw!r}")
+    return mm
+
+
+def grid_layout(raw: Any) -> tuple[int, int] | None:
+    """``COLSxROWS`` (each 1 to 10) -> (columns, rows); None to choose from the panel count."""
+    if raw is None or (isinstance(raw, str) and raw.strip().lower() in ("none", "auto")):
+        return None
+    parts: list[Any] = raw.lower().split("x") if isinstance(raw, str) else list(raw)
+    try:
+        cols, rows = (int(v) for v in parts)
+    except (TypeError, ValueError):
+        cols = rows = 0
+    if not (1 <= cols <= 10 and 1 <= rows <= 10):
+        raise ValueError(f"expected COLSxROWS like 3x2, each 1 to 10, got {raw!r}")
+    return cols, rows
+
+
 def _image_option(default: tuple[int, int], help: str) -> Any:
     return option(default, f"{help}, 16 to 8192 a side", pixel_size, unit="pixels", metavar="WxH")
 
@@ -95,21 +137,41 @@ class FigureOptions:
     grid : int, default: 128
         Samples per axis of the mesh.
     size : (int, int), default: (1600, 1200)
-        Image width and height in pixels, before ``scale``.
+        Image width and height in pixels, before ``scale`` (with ``width``, only its aspect
+        counts: a panel's shape).
     scale : float, default: 1
         Resolution multiplier (2 for print).
-    view : (float, float), default: iso
-        Camera azimuth from +x towards +y and elevation above the xy plane, degrees.
+    width, height : float or None, default: None
+        Printed width and height in mm (given as ``85mm``, ``8.5cm``, ``3.35in``); with
+        ``dpi`` they set the pixels. Without height it follows from the layout.
+    dpi : int, default: 300
+        Resolution at the printed size; written into the file's resolution tags.
+    view : (float, float) or None, default: None
+        Camera azimuth from +x towards +y and elevation above the xy plane, degrees. None:
+        ``iso`` (35, 25), or (20, 55) for a sheet of d or f orbitals that differ by orientation.
     transparent : bool, default: False
         Transparent background (PNG alpha).
     background : str, default: "white"
         Background colour (name or #RRGGBB) when not transparent.
     axes : bool, default: True
-        Draw an axes triad.
-    scale_bar : {"angstrom", "bohr", None}, default: "angstrom"
-        Scale bar unit, or none.
+        Draw an axes triad in the corner.
+    axis_lines : bool or None, default: None
+        Draw labelled x, y and z axes through the nucleus; None: on for sheets of a set whose
+        members differ by orientation (2p, 3d, 4f, hybrids).
+    scale_bar : bool, default: True
+        Draw a scale bar.
+    units : {"angstrom", "bohr"}, default: "angstrom"
+        Length unit of the scale bar (and of sizes in the alt text).
+    key : bool, default: True
+        Draw the key of the phase colours (psi > 0 / psi < 0, or the phase wheel).
     title : str or None
         Text at the top left.
+    labels : {"letters", "specs", "none"}, default: "letters"
+        Panel labels of a sheet: "(a) 3dxy", "3dxy", or none.
+    layout : (int, int) or None, default: None
+        Columns and rows of a sheet's panels; None chooses them.
+    overlay : bool, default: False
+        Draw a set's members in one panel, each in its own colour, instead of a sheet.
     lighting : {"soft", "studio", "flat"}, default: "soft"
         Lighting preset.
     nodes : bool, default: False
@@ -129,10 +191,26 @@ class FigureOptions:
     scale: float = option(
         1.0, "resolution multiplier, 0.25 to 8 (2 for print)", number(0.25, 8.0), metavar="K"
     )
-    view: tuple[float, float] = option(
-        VIEWS["iso"],
-        "camera direction: iso, x, y, z, or AZ,EL in degrees",
-        view_angles,
+    width: float | None = option(
+        None,
+        "printed width, 10 to 1000 mm, as 85mm, 8.5cm or 3.35in (sets the pixels with --dpi)",
+        print_length,
+        metavar="LENGTH",
+    )
+    height: float | None = option(
+        None,
+        "printed height, as --width (default: from the layout)",
+        print_length,
+        metavar="LENGTH",
+    )
+    dpi: int = option(
+        300, "resolution at the printed size, 72 to 2400", integer(72, 2400), metavar="N"
+    )
+    view: tuple[float, float] | None = option(
+        None,
+        "camera direction: iso, x, y, z, or AZ,EL in degrees (default: iso; 20,55 for sheets "
+        "of d and f sets, which shows the lobes between the axes apart from those along them)",
+        lambda raw: None if raw is None else view_angles(raw),
         metavar="VIEW",
     )
     transparent: bool = option(False, "transparent background (PNG alpha)", boolean())
@@ -140,14 +218,39 @@ class FigureOptions:
         "white", "background colour, a name or #RRGGBB", background_colour, metavar="COLOUR"
     )
     axes: bool = option(True, "leave out the axes triad", boolean(), flag="--no-axes", negate=True)
-    scale_bar: str | None = option(
-        "angstrom",
-        "scale bar unit",
-        choice("angstrom", "bohr", allow_none=True),
-        metavar="{angstrom,bohr,none}",
+    axis_lines: bool | None = option(
+        None,
+        "draw labelled x, y, z axes through the nucleus (default: on for sheets of sets that "
+        "differ by orientation, such as 3d)",
+        lambda raw: None if raw is None else boolean()(raw),
+        switch=True,
+    )
+    scale_bar: bool = option(
+        True, "leave out the scale bar", boolean(), flag="--no-scale-bar", negate=True
+    )
+    units: str = option(
+        DEFAULTS.display_units,
+        "length unit of the scale bar and the alt text",
+        choice(*DISPLAY_UNITS),
+        metavar="{angstrom,bohr}",
+    )
+    key: bool = option(
+        True, "leave out the key of phase colours", boolean(), flag="--no-key", negate=True
     )
     title: str | None = option(
         None, "a title at the top left", text(200, allow_none=True), metavar="TEXT"
+    )
+    labels: str = option(
+        "letters",
+        "panel labels of a sheet: (a) 3dxy, 3dxy, or none",
+        choice("letters", "specs", "none"),
+        metavar="{letters,specs,none}",
+    )
+    layout: tuple[int, int] | None = option(
+        None, "columns and rows of a sheet, like 3x2 (default: chosen)", grid_layout, metavar="CxR"
+    )
+    overlay: bool = option(
+        False, "draw a set's members in one panel, each in its own colour", boolean()
     )
     lighting: str = option(
         "soft", "lighting preset", choice(*LIGHTING), metavar="{soft,studio,flat}"
@@ -175,24 +278,39 @@ class FigureOptions:
     colors: ColorPair = colors_option()
 
     def relations(self) -> list[tuple[str, str]]:
-        """Cross-option problems: the image's total size."""
-        w, h = self.size
-        megapixels = w * h * self.scale**2 / 1e6
-        if megapixels > LIMITS.image_megapixels:
+        """Cross-option problems: the image's total size (of one panel's page)."""
+        w, h = self.pixels
+        if w * h / 1e6 > LIMITS.image_megapixels:
             return [
                 (
-                    "scale",
-                    f"the image would be {megapixels:.0f} megapixels; at most "
-                    f"{LIMITS.image_megapixels:g} after {{scale}}",
+                    "dpi" if self.width else "scale",
+                    f"the image would be {w * h / 1e6:.0f} megapixels; at most "
+                    f"{LIMITS.image_megapixels:g}",
                 )
             ]
         return []
 
     @property
     def pixels(self) -> tuple[int, int]:
-        """Width and height of the rendered image, after ``scale``."""
+        """Width and height of a one-panel figure's image, in pixels."""
         w, h = self.size
-        return int(round(w * self.scale)), int(round(h * self.scale))
+        if self.width is None:
+            page_w = w * self.scale
+        else:
+            page_w = self.width / 25.4 * self.dpi
+        page_h = self.height / 25.4 * self.dpi if self.height is not None else page_w * h / w
+        return int(round(page_w)), int(round(page_h))
+
+    @property
+    def page_dpi(self) -> float:
+        """Pixels per inch: ``dpi`` at a printed size; else text scales with the image.
+
+        Without a printed width, 1600 pixels count as 5.33 inches (300 dpi), so a point of
+        text is the same share of the image at every pixel size.
+        """
+        if self.width is not None:
+            return float(self.dpi)
+        return 300.0 * self.size[0] * self.scale / DEFAULTS.image_size[0]
 
 
 @dataclass(frozen=True)
@@ -203,12 +321,22 @@ class PlotOptions:
     ----------
     kind : {"slice", "radial"}
         A density slice through the nucleus, or the radial distribution.
-    plane : {"xz", "xy", "yz"}, default: "xz"
-        The slice's plane.
+    plane : {"xz", "xy", "yz"} or None, default: None
+        The slice's plane; None chooses, for each state, the one of the three holding the most
+        probability (xz on a tie), so that 3dxy is not sliced along its nodal plane.
+    quantity : {"density", "psi"}, default: "density"
+        A slice of |psi|^2 (log scale), or of the signed psi on a diverging map.
+    units : {"angstrom", "bohr"}, default: "angstrom"
+        Length unit of the axes.
     extent : float or None
         Half-width of the slice in bohr (default: 1.15 times the surface's reach).
     title : str or None
         Axes title.
+    width, height : float or None, default: None
+        Printed size in mm (given as ``85mm``, ``8.5cm``, ``3.35in``); the text keeps its point
+        sizes. Default: 6.4 in wide for a radial plot, 3.4 in per slice panel.
+    dpi : int, default: 300
+        Resolution of PNG and TIFF output (and of PDF/SVG raster parts), written into the file.
     """
 
     kind: str = option(
@@ -217,7 +345,25 @@ class PlotOptions:
         choice("slice", "radial"),
         metavar="{slice,radial}",
     )
-    plane: str = option("xz", "plane of a slice", choice("xz", "xy", "yz"), metavar="{xz,xy,yz}")
+    plane: str | None = option(
+        None,
+        "plane of a slice (default: of xz, xy and yz the one holding the most probability, xz on "
+        "a tie)",
+        choice("xz", "xy", "yz", allow_none=True),
+        metavar="{xz,xy,yz}",
+    )
+    quantity: str = option(
+        "density",
+        "what a slice shows: |psi|^2 (log scale) or the signed psi in the phase colours",
+        choice("density", "psi"),
+        metavar="{density,psi}",
+    )
+    units: str = option(
+        DEFAULTS.display_units,
+        "length unit of the axes",
+        choice(*DISPLAY_UNITS),
+        metavar="{angstrom,bohr}",
+    )
     extent: float | None = option(
         None,
         "half-width of the slice (default: 1.15 times the surface's reach)",
@@ -231,6 +377,41 @@ class PlotOptions:
         text(200, allow_none=True),
         metavar="TEXT",
     )
+    width: float | None = option(
+        None,
+        "printed width, 10 to 1000 mm, as 85mm, 8.5cm or 3.35in (default: from the kind)",
+        print_length,
+        metavar="LENGTH",
+    )
+    height: float | None = option(
+        None, "printed height, as --width (default: from the width)", print_length, metavar="LENGTH"
+    )
+    dpi: int = option(
+        300, "resolution of PNG and TIFF output, 72 to 2400", integer(72, 2400), metavar="N"
+    )
+
+    def inches(self, natural: tuple[float, float]) -> tuple[float, float]:
+        """Return the printed size in inches: the options' width and height, else ``natural``.
+
+        Raises
+        ------
+        OptionError
+            When the size at ``dpi`` exceeds the image limit (LIMITS.image_megapixels).
+        """
+        width = natural[0] if self.width is None else self.width / 25.4
+        if self.height is not None:
+            height = self.height / 25.4
+        else:
+            height = natural[1] * width / natural[0]
+        megapixels = width * height * self.dpi**2 / 1e6
+        if megapixels > LIMITS.image_megapixels:
+            raise OptionError(
+                "size",
+                f"{width * 25.4:.0f} x {height * 25.4:.0f} mm at {self.dpi} dpi is "
+                f"{megapixels:.0f} megapixels; at most {LIMITS.image_megapixels:g} (lower the "
+                "width or the dpi)",
+            )
+        return width, height
 
 
 @dataclass(frozen=True)

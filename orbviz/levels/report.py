@@ -7,13 +7,39 @@ Every kind of state gives the same keys, ``null`` where it has no such number.
 
 from __future__ import annotations
 
+from dataclasses import dataclass
 from typing import Any
 
-from orbviz._defaults import DEFAULTS
+from orbviz._defaults import BOHR_IN_ANGSTROM, DEFAULTS, DISPLAY_UNITS
+from orbviz._options import choice, option
 from orbviz.levels.isovalue import enclosing_isovalue
 from orbviz.states.state import State
 
-__all__ = ["format_summary", "hartree_in_ev", "summarise"]
+__all__ = ["ReportOptions", "format_summary", "format_table", "hartree_in_ev", "summarise"]
+
+
+@dataclass(frozen=True)
+class ReportOptions:
+    """How ``orbviz info`` shows its numbers (its JSON stays in atomic units, bohr and hartree).
+
+    Attributes
+    ----------
+    units : {"angstrom", "bohr"}, default: "angstrom"
+        Unit of the radii in the text (the isovalue is given per bohr^3, and per Å^3 beside it).
+    """
+
+    units: str = option(
+        DEFAULTS.display_units,
+        "length unit of the radii in the text (--json stays in bohr)",
+        choice(*DISPLAY_UNITS),
+        metavar="{angstrom,bohr}",
+    )
+
+
+def _length(bohr: float, units: str, digits: int) -> str:
+    if units == "angstrom":
+        return f"{bohr * BOHR_IN_ANGSTROM:.{digits}g} Å"
+    return f"{bohr:.{digits}g} bohr"
 
 
 def hartree_in_ev() -> float:
@@ -116,7 +142,7 @@ def _energy_lines(info: dict[str, Any]) -> list[str]:
     return [f"energy        {energy}"]
 
 
-def _node_lines(info: dict[str, Any]) -> list[str]:
+def _node_lines(info: dict[str, Any], units: str) -> list[str]:
     if info["radial_nodes"] is None:
         return []
     nodes = f"{info['radial_nodes']} radial"
@@ -125,23 +151,55 @@ def _node_lines(info: dict[str, Any]) -> list[str]:
         if info["form"] == "complex" and info["m"]:
             nodes += " (and the z axis, a nodal line)"
     if info["radial_node_radii_bohr"]:
-        radii = ", ".join(f"{r:.6g}" for r in info["radial_node_radii_bohr"])
-        nodes += f"; radial nodes at r = {radii} bohr"
+        radii = ", ".join(_length(r, units, 6) for r in info["radial_node_radii_bohr"])
+        nodes += f"; radial nodes at r = {radii}"
     return [f"nodes         {nodes}"]
 
 
-def format_summary(info: dict[str, Any]) -> str:
-    """Readable multi-line text for a :func:`summarise` result."""
-    lines = _state_lines(info) + _energy_lines(info) + _node_lines(info)
+def format_summary(info: dict[str, Any], units: str = DEFAULTS.display_units) -> str:
+    """Readable multi-line text for a :func:`summarise` result, radii in ``units``."""
+    lines = _state_lines(info) + _energy_lines(info) + _node_lines(info, units)
     if info["mean_radius_bohr"] is not None:
         lines.append(
-            f"radius        <r> = {info['mean_radius_bohr']:.8g} bohr; most probable "
-            f"{info['most_probable_radius_bohr']:.8g} bohr"
+            f"radius        <r> = {_length(info['mean_radius_bohr'], units, 6)}; most probable "
+            f"{_length(info['most_probable_radius_bohr'], units, 6)}"
         )
+    per_angstrom = (
+        f" ({info['isovalue'] / BOHR_IN_ANGSTROM**3:.6e} Å^-3)" if units == "angstrom" else ""
+    )
     lines.append(
-        f"isovalue      |psi|^2 = {info['isovalue']:.6e} bohr^-3 encloses "
+        f"isovalue      |psi|^2 = {info['isovalue']:.6e} bohr^-3{per_angstrom} encloses "
         f"{100 * info['enclosed_fraction']:.4f}% (asked {100 * info['fraction']:g}%); "
-        f"surface reaches r = {info['surface_max_radius_bohr']:.4g} bohr"
+        f"surface reaches r = {_length(info['surface_max_radius_bohr'], units, 4)}"
     )
     lines += [f"note          {note}" for note in info["notes"]]
     return "\n".join(lines)
+
+
+def format_table(infos: list[dict[str, Any]], units: str = DEFAULTS.display_units) -> str:
+    """One row per state of a set: label, energy, degeneracy, nodes, <r> and isovalue."""
+    scale, unit = (BOHR_IN_ANGSTROM, "Å") if units == "angstrom" else (1.0, "bohr")
+    head = (
+        f"{'orbital':<14} {'energy/hartree':>15} {'deg':>4} {'nodes r,a':>9} "
+        f"{'<r>/' + unit:>10} "
+        f"{'isovalue/bohr^-3':>17} {'encloses':>9}"
+    )
+    rows = [head]
+    for info in infos:
+        energy = "none" if info["energy_hartree"] is None else f"{info['energy_hartree']:.8g}"
+        degeneracy = "-" if info["degeneracy"] is None else str(info["degeneracy"])
+        nodes = (
+            "-"
+            if info["radial_nodes"] is None
+            else f"{info['radial_nodes']},{info['angular_nodes']}"
+        )
+        mean = (
+            "-" if info["mean_radius_bohr"] is None else f"{info['mean_radius_bohr'] * scale:.6g}"
+        )
+        rows.append(
+            f"{info['label']:<14} {energy:>15} {degeneracy:>4} {nodes:>9} {mean:>10} "
+            f"{info['isovalue']:>17.6e} {100 * info['enclosed_fraction']:>8.4f}%"
+        )
+    notes = dict.fromkeys(n for info in infos for n in info["notes"])
+    rows += [f"note          {n}" for n in notes]
+    return "\n".join(rows)

@@ -18,6 +18,7 @@ import numpy as np
 
 from orbviz._defaults import DEFAULTS
 from orbviz._options import checked
+from orbviz._progress import progress
 from orbviz.errors import ModelError, OutputError
 from orbviz.levels.grid import box_half_width
 from orbviz.levels.isovalue import enclosing_isovalue
@@ -104,6 +105,23 @@ class PrintModel:
             colors = np.tile(np.array(rgba, dtype=np.uint8), (len(vertices), 1))
             zeros = np.zeros_like(vertices, np.float32)
             out.append(Body(name, vertices, faces, zeros, zeros[:, 0].copy(), colors, unit="mm"))
+        return out
+
+    def preview_bodies(self) -> list[Body]:
+        """Return the colour parts in bohr (the model's scale undone), with vertex normals.
+
+        For drawing the model beside, or in place of, the orbital it was made from.
+        """
+        import trimesh
+
+        out = []
+        for body in self.bodies("parts"):
+            vertices = body.vertices / self.mm_per_bohr
+            mesh = trimesh.Trimesh(vertices, body.faces, process=False)
+            normals = np.asarray(mesh.vertex_normals, np.float32)
+            out.append(
+                Body(body.name, vertices, body.faces, normals, body.phase, body.colors, unit="bohr")
+            )
         return out
 
     def facts(self) -> MeshFacts:
@@ -240,7 +258,8 @@ def build_model(
         bodies, meshes = mesh.bodies, [mesh]
     size = opts.size_mm
     scale = size / float(np.ptp(np.vstack([b.vertices for b in bodies]), axis=0).max())
-    for _ in range(2):  # the stand changes the bounding box: rescale once more
+    passes = progress(range(2), total=2, desc="orbviz model", unit="pass")
+    for _ in passes:  # the stand changes the bounding box: rescale once more
         solid, parts = _assemble(bodies, scale, opts, opts.rod)
         lo, hi = (np.array(b) for b in _bbox(solid))
         longest = float((hi - lo).max())

@@ -1,7 +1,12 @@
-"""Spec text and physics options into a state of the right kind, or the members of a set."""
+"""Spec text and physics options into a state of the right kind, or the members of a set.
+
+A set is named without picking a member: a hybrid set (``2sp3``: its four hybrids) or a
+subshell (``3d``: the five real 3d orbitals; ``C:2p``: carbon's three 2p orbitals).
+"""
 
 from __future__ import annotations
 
+import re
 from typing import TYPE_CHECKING
 
 from orbviz.errors import SpecError
@@ -15,7 +20,15 @@ from orbviz.states.state import State
 if TYPE_CHECKING:
     from orbviz.states.physics import Physics
 
-__all__ = ["make_state", "make_states", "set_members"]
+__all__ = ["make_state", "make_states", "oriented_set", "set_members"]
+
+_SUBSHELL = re.compile(r"\s*(?:([A-Za-z]{1,2})\s*:\s*)?(\d+)\s*([pdf])\s*$", re.I)
+# the real orbitals of a subshell, in the order textbooks draw them
+_MEMBERS = {
+    "p": ["px", "py", "pz"],
+    "d": ["dxy", "dxz", "dyz", "dx2-y2", "dz2"],
+    "f": ["fz3", "fxz2", "fyz2", "fxyz", "fz(x2-y2)", "fx(x2-3y2)", "fy(3x2-y2)"],
+}
 
 
 def _potential(physics: Physics, spec: str) -> Potential | None:
@@ -27,8 +40,23 @@ def _potential(physics: Physics, spec: str) -> Potential | None:
 
 
 def set_members(spec: str) -> list[str] | None:
-    """Return the member specs of a set named without an index (``2sp3``), or None."""
-    return hybrid_set(spec)
+    """Return the member specs of a set (``2sp3``, ``3d``, ``C:2p``), or None for one state."""
+    if not isinstance(spec, str):
+        return None
+    hybrids = hybrid_set(spec)
+    if hybrids is not None:
+        return hybrids
+    match = _SUBSHELL.fullmatch(spec)
+    if match is None:
+        return None
+    element, n, letter = match.group(1), match.group(2), match.group(3).lower()
+    prefix = f"{element}:" if element else ""
+    return [f"{prefix}{n}{label}" for label in _MEMBERS[letter]]
+
+
+def oriented_set(spec: str) -> bool:
+    """Tell whether spec text names a set whose members differ by orientation (all sets do)."""
+    return set_members(spec) is not None
 
 
 def make_state(spec: str, physics: Physics, /) -> State:
@@ -51,8 +79,8 @@ def make_state(spec: str, physics: Physics, /) -> State:
     members = set_members(spec)
     if members is not None:
         raise SpecError(
-            f"{spec.strip()!r} names the set of {len(members)} hybrids {members[0]} to "
-            f"{members[-1]}; name one of them, or use render or model, which draw the whole set"
+            f"{spec.strip()!r} names the set of {len(members)} orbitals {members[0]} to "
+            f"{members[-1]}; name one of them (render, plot and info take the whole set)"
         )
     ratio = physics.mass_ratio(spec)
     potential = _potential(physics, spec)
