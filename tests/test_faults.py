@@ -541,15 +541,18 @@ def test_pending_entry_names_every_file_its_item_writes(tmp_path):
     # unlisted. That only holds if the list covers what the item really writes, companions too
     from orbviz.scenes.items import OUTPUTS
 
-    text = (
-        "[[orbital]]\nspec = '2pz'\ngrid = 32\nrender = { size = '160x120' }\n"
+    text = (  # a superposition of different energies, so that it can be animated too
+        "[[orbital]]\nspec = '1s + 2pz'\nname = 'mix'\ngrid = 32\n"
+        "render = { size = '160x120' }\nanimate = { frames = 3, grid = 24, size = '80x60' }\n"
         f"outputs = {list(OUTPUTS)!r}\n"
     )
     (item,) = parse_scene(text, "all.toml").items
     (entry,) = run_scene([item], tmp_path, jobs=1, progress=False)["items"]
     assert entry["status"] == "done", entry.get("error")
-    assert sorted(entry["files"]) == sorted(f for f in item.files() if f != "thumbs/2pz.png")
-    assert {"2pz.mtl", "2pz.bin", "2pz-model.3mf"} <= set(entry["files"])
+    assert sorted(entry["files"]) == sorted(f for f in item.files() if f != "thumbs/mix.png")
+    assert {"mix.mtl", "mix.bin", "mix-model.3mf", "mix-slice.svg", "mix.mp4"} <= set(
+        entry["files"]
+    )
 
 
 # --- 6. A potential table ---------------------------------------------------------------------

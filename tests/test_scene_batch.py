@@ -84,7 +84,11 @@ def test_shells_expand_to_every_real_orbital():
         ("[[orbital]]\nspec = '2pq'\n", "t.toml: orbital 1 ('2pq'): spec: expected an orbital"),
         ("[[orbital]]\nspec = '2pz'\nfraction = 1.5\n", "fraction: expected a number"),
         ("[[orbital]]\nspec = '2pz'\ngrid = 'fine'\n", "grid: expected a whole number"),
-        ("[[orbital]]\nspec = '2pz'\noutputs = ['gif']\n", "outputs: expected a non-empty list"),
+        ("[[orbital]]\nspec = '2pz'\noutputs = ['webm']\n", "outputs: expected a non-empty list"),
+        (
+            "[[orbital]]\nspec = '2pz'\noutputs = ['gif']\n",
+            "outputs: an animation (gif, mp4) needs",
+        ),
         ("[[orbital]]\nspec = '2pz'\nrender = { colour = 'red' }\n", "render.colour: unknown key"),
         ("[[orbital]]\nspec = '2pz'\nname = '../escape'\n", "name: '../escape' must be"),
         ("[[orbital]]\nspec = '2pz'\nname = '/etc/x'\n", "name: '/etc/x' must be"),

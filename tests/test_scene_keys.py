@@ -22,7 +22,8 @@ COMMON = [
     ("potential", '"yukawa:0"', "potential: yukawa takes a number from"),
     ("atom", '"Qq"', "spec: unknown element 'Qq'"),
     ("atom", "3", "atom: expected an element symbol"),
-    ("outputs", '["gif"]', "outputs: expected a non-empty list"),
+    ("outputs", '["webm"]', "outputs: expected a non-empty list"),
+    ("outputs", '["gif"]', "outputs: an animation (gif, mp4) needs motion"),
     ("outputs", "[]", "outputs: expected a non-empty list"),
     ("reduced_mass", "3", "reduced_mass: expected true or false"),
     ("nuclear_mass", "-2", "nuclear_mass: expected a number from 0.00054"),
@@ -39,6 +40,11 @@ RENDER = [
     ("scale_bar", '"feet"', "render.scale_bar: expected true or false"),
     ("units", '"feet"', "render.units: expected angstrom or bohr"),
     ("width", '"2 miles"', "render.width: expected a printed length"),
+    ("height", '"5mm"', "render.height: expected a printed length from 10 mm"),
+    ("axis_lines", '"x"', "render.axis_lines: expected true or false"),
+    ("overlay", "3", "render.overlay: expected true or false"),
+    ("title", '"{nope}"', "render.title: unknown placeholder {nope}"),
+    ("title", '"{label"', "render.title: "),
     ("dpi", "10", "render.dpi: expected a whole number from 72 to 2400"),
     ("layout", '"0x3"', "render.layout: expected COLSxROWS"),
     ("labels", '"roman"', "render.labels: expected letters, specs or none"),
@@ -51,6 +57,25 @@ RENDER = [
     ("extent", "-3", "render.extent: expected a number above 0"),
     ("colour", '"red"', "render.colour: unknown key"),
 ]
+PLOT = [
+    ("plane", '"ab"', "plot.plane: expected xz, xy, yz or none"),
+    ("quantity", '"phase"', "plot.quantity: expected density or psi"),
+    ("units", '"feet"', "plot.units: expected angstrom or bohr"),
+    ("extent", "0", "plot.extent: expected a number above 0"),
+    ("title", "3", "plot.title: expected text"),
+    ("width", '"1km"', "plot.width: expected a printed length"),
+    ("height", "5", "plot.height: expected a printed length"),
+    ("dpi", "5000", "plot.dpi: expected a whole number from 72 to 2400"),
+    ("kind", '"radial"', "plot.kind: unknown key"),
+]
+ANIMATE = [
+    ("frames", "0", "animate.frames: expected a whole number"),
+    ("periods", "-1", "animate.periods: expected a number"),
+    ("seconds", "0", "animate.seconds: expected a number"),
+    ("grid", "5", "animate.grid: expected a whole number"),
+    ("size", '"1x1"', "animate.size: expected WIDTHxHEIGHT"),
+    ("colors", '"red"', "animate.colors: unknown key"),
+]
 MODEL = [
     ("size", "-5", "model.size: expected a number from 5 to 500 mm"),
     ("rod", "1000", "model.rod: expected a number"),
@@ -60,6 +85,30 @@ MODEL = [
     ("cut", '"slice"', "model.cut: expected half, quarter or none"),
     ("split", "true", "model.split: unknown key"),
 ]
+
+
+def test_every_key_of_every_table_is_listed_here():
+    from orbviz._options import external_keys
+    from orbviz.figures.options import AnimationOptions, FigureOptions, PlotOptions
+    from orbviz.models.options import ModelOptions
+
+    listed = {
+        "render": {k for k, _, _ in RENDER},
+        "plot": {k for k, _, _ in PLOT},
+        "animate": {k for k, _, _ in ANIMATE},
+        "model": {k for k, _, _ in MODEL},
+    }
+    shared = {"grid", "colors"}  # checked as common keys
+    for table, cls in [
+        ("render", FigureOptions),
+        ("plot", PlotOptions),
+        ("animate", AnimationOptions),
+        ("model", ModelOptions),
+    ]:
+        keys = set(external_keys(cls).values()) - shared - {"kind", "split"}
+        if table == "animate":
+            keys |= {"grid"} - listed[table]  # the animation keeps its own grid
+        assert keys <= listed[table], (table, keys - listed[table])
 
 
 def _run(tmp_path, capsys, text: str) -> str:
@@ -91,6 +140,40 @@ def test_render_keys(tmp_path, capsys, key, value, fragment):
     assert f"lab.toml: orbital 1 ('2pz'): {fragment}" in err
 
 
+@pytest.mark.parametrize(("key", "value", "fragment"), PLOT)
+def test_plot_keys(tmp_path, capsys, key, value, fragment):
+    text = f'[[orbital]]\nspec = "2pz"\noutputs = ["slice.png"]\nplot = {{ {key} = {value} }}\n'
+    err = _run(tmp_path, capsys, text)
+    assert f"lab.toml: orbital 1 ('2pz'): {fragment}" in err
+
+
+@pytest.mark.parametrize(("key", "value", "fragment"), ANIMATE)
+def test_animate_keys(tmp_path, capsys, key, value, fragment):
+    text = f'[[orbital]]\nspec = "1s + 2pz"\noutputs = ["gif"]\nanimate = {{ {key} = {value} }}\n'
+    err = _run(tmp_path, capsys, text)
+    assert f"lab.toml: orbital 1 ('1s + 2pz'): {fragment}" in err
+
+
+@pytest.mark.parametrize(
+    ("text", "fragment"),
+    [
+        ("[[sheet]]\nname = 'x'\n", "lab.toml: sheet 1: specs: missing"),
+        ("[[sheet]]\nspecs = '3d'\n", "lab.toml: sheet 1: specs: expected a list of 1 to 24"),
+        ("[[sheet]]\nspecs = []\n", "lab.toml: sheet 1: specs: expected a list"),
+        (
+            "[[sheet]]\nspecs = ['4f', '5f', '6f', '7f']\n",
+            "specs: 28 panels; a sheet holds at most 24",
+        ),
+        ("[[sheet]]\nspecs = ['3d', '2pq']\n", "sheet 1 ('3d 2pq'): spec: expected an orbital"),
+        ("[[sheet]]\nspecs = ['3d']\noutputs = ['glb']\n", "sheet 1 ('3d'): outputs: expected"),
+        ("[[sheet]]\nspecs = ['3d']\nspec = '3d'\n", "sheet 1 ('3d'): spec: unknown key"),
+        ("[[orbital]]\nspec = '3d'\n", "orbital 1 ('3d'): spec: '3d' names a set of 5 orbitals"),
+    ],
+)
+def test_sheet_keys(tmp_path, capsys, text, fragment):
+    assert fragment in _run(tmp_path, capsys, text)
+
+
 @pytest.mark.parametrize(("key", "value", "fragment"), MODEL)
 def test_model_keys(tmp_path, capsys, key, value, fragment):
     text = f'[[orbital]]\nspec = "2pz"\noutputs = ["model.stl"]\nmodel = {{ {key} = {value} }}\n'
@@ -114,6 +197,10 @@ def test_model_keys(tmp_path, capsys, key, value, fragment):
             "[[orbital]]\nspec = '1s'\nname = 'x'\noutputs = ['model.stl']\n"
             "[[orbital]]\nspec = '2pz'\nname = 'x-model'\noutputs = ['stl']\n",
             "both write 'x-model.stl'",
+        ),
+        (
+            "[[orbital]]\nspec = '2pz'\nname = 'x-model'\noutputs = ['stl', 'model.stl']\n",
+            "outputs: two outputs would share a file name",
         ),
         ("x = " + "[" * 5000 + "]" * 5000 + "\n", "lab.toml: not"),
     ],

@@ -14,10 +14,10 @@ from typing import Any
 import numpy as np
 
 from orbviz.errors import OutputError
-from orbviz.export import atomic_folder, atomic_paths, check_targets, write_files
+from orbviz.export import atomic_folder, check_targets, write_files
 from orbviz.figures.animation import Animation
 
-__all__ = ["ANIMATION_SUFFIXES", "check_animation_output", "write_animation"]
+__all__ = ["ANIMATION_SUFFIXES", "check_animation_output", "encode_movie", "write_animation"]
 
 ANIMATION_SUFFIXES = (".gif", ".mp4", ".glb", "")  # "": a folder of PNG frames
 _FRAME = re.compile(r"frame_\d{3,}\.png")
@@ -52,16 +52,18 @@ def check_animation_output(path: str | os.PathLike[str]) -> Path:
     return path
 
 
-def _gif(animation: Animation, path: Path) -> list[Path]:
+def _gif_bytes(animation: Animation) -> bytes:
+    import io
+
     from PIL import Image
 
     pictures = [Image.fromarray(img[..., :3], "RGB") for img in animation.images]
     duration = max(20, int(1000 * animation.seconds / len(pictures)))
-    with atomic_paths(path) as (temp,):
-        pictures[0].save(
-            temp, format="GIF", save_all=True, append_images=pictures[1:], duration=duration, loop=0
-        )
-    return [path]
+    buffer = io.BytesIO()
+    pictures[0].save(
+        buffer, format="GIF", save_all=True, append_images=pictures[1:], duration=duration, loop=0
+    )
+    return buffer.getvalue()
 
 
 def _frames(animation: Animation, path: Path) -> list[Path]:
@@ -74,33 +76,39 @@ def _frames(animation: Animation, path: Path) -> list[Path]:
     return [path / name for name in names]
 
 
-def _mp4(animation: Animation, path: Path) -> list[Path]:
+def _mp4_bytes(animation: Animation) -> bytes:
     """H.264 MP4 through imageio's ffmpeg (the binary ships in the imageio-ffmpeg wheel)."""
+    import tempfile
+
     import imageio.v2 as imageio
 
     fps = max(1.0, len(animation.images) / animation.seconds)
-    with atomic_paths(path) as (temp,):
-        staging = temp.with_name(temp.name + ".mp4")  # ffmpeg takes the container from the name
+    with tempfile.TemporaryDirectory(prefix="orbviz-mp4-") as folder:
+        staging = Path(folder) / "movie.mp4"  # ffmpeg takes the container from the name
+        writer = imageio.get_writer(
+            staging,
+            fps=fps,
+            codec="libx264",
+            quality=8,
+            macro_block_size=2,
+            ffmpeg_log_level="error",
+        )
         try:
-            writer = imageio.get_writer(
-                staging,
-                fps=fps,
-                codec="libx264",
-                quality=8,
-                macro_block_size=2,
-                ffmpeg_log_level="error",
-            )
-            try:
-                for img in animation.images:
-                    rgb = img[..., :3]
-                    h, w = rgb.shape[:2]
-                    writer.append_data(np.pad(rgb, ((0, h % 2), (0, w % 2), (0, 0)), mode="edge"))
-            finally:
-                writer.close()
-            os.replace(staging, temp)
+            for img in animation.images:
+                rgb = img[..., :3]
+                h, w = rgb.shape[:2]
+                writer.append_data(np.pad(rgb, ((0, h % 2), (0, w % 2), (0, 0)), mode="edge"))
         finally:
-            staging.unlink(missing_ok=True)
-    return [path]
+            writer.close()
+        return staging.read_bytes()
+
+
+def encode_movie(animation: Animation, suffix: str) -> bytes:
+    """Return the frames as a looping GIF (``.gif``) or an H.264 MP4 (``.mp4``) file's bytes."""
+    encoders = {".gif": _gif_bytes, ".mp4": _mp4_bytes}
+    if suffix.lower() not in encoders:
+        raise OutputError(f"movies are .gif or .mp4, not {suffix!r}")
+    return encoders[suffix.lower()](animation)
 
 
 def _glb(animation: Animation, path: Path) -> list[Path]:
@@ -167,5 +175,6 @@ def write_animation(animation: Animation, path: str | os.PathLike[str]) -> list[
         if not animation.bodies:
             raise OutputError("this animation kept no bodies: animate(..., keep_bodies=True)")
         return _glb(animation, path)
-    writer = {".gif": _gif, ".mp4": _mp4, "": _frames}[suffix]
-    return writer(animation, path)
+    if suffix in (".gif", ".mp4"):
+        return write_files({path: encode_movie(animation, suffix)})
+    return _frames(animation, path)

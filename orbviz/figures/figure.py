@@ -284,8 +284,9 @@ class Figure:
         """Render a PNG whose panels are ``size`` pixels, with text sized for it.
 
         The page is laid out as if printed ``size[0]`` pixels wide at ``dpi``, so the labels,
-        key and scale bar keep their point sizes (8 pt is 17 pixels at 150 dpi) instead of
-        shrinking with the image. The render window is reused and restored afterwards.
+        key and scale bar keep their point sizes (6.5 pt is 13 pixels at 150 dpi) instead of
+        shrinking with the image; the title is left out (a thumbnail's caption names it). The
+        render window is reused and restored afterwards.
         """
         if self.plotter is None:
             raise ParameterError("the figure is closed: make a new one to render again")
@@ -293,8 +294,14 @@ class Figure:
 
         saved, window = self.options, list(self.plotter.window_size)
         cols = self.layout[0]
-        self.options = dataclasses.replace(
-            saved, size=size, scale=1.0, width=cols * size[0] / dpi * 25.4, height=None, dpi=dpi
+        self.options = dataclasses.replace(  # no title: a thumbnail's caption names it
+            saved,
+            size=size,
+            scale=1.0,
+            width=cols * size[0] / dpi * 25.4,
+            height=None,
+            dpi=dpi,
+            title=None,
         )
         try:
             self._hide()

@@ -10,17 +10,55 @@ from dataclasses import dataclass, field
 from typing import Any
 
 from orbviz import __version__
-from orbviz.figures.options import FigureOptions
+from orbviz.figures.options import AnimationOptions, FigureOptions, PlotOptions
 from orbviz.models.options import ModelOptions
 from orbviz.states.physics import Physics
 from orbviz.surface.options import MeshOptions
 
-__all__ = ["MESH_OUTPUTS", "MODEL_OUTPUTS", "OUTPUTS", "Item", "slug"]
+__all__ = [
+    "ANIMATION_OUTPUTS",
+    "FIGURE_OUTPUTS",
+    "MESH_OUTPUTS",
+    "MODEL_OUTPUTS",
+    "OUTPUTS",
+    "PLOT_OUTPUTS",
+    "SHEET_OUTPUTS",
+    "TITLE_FIELDS",
+    "Item",
+    "check_title",
+    "slug",
+]
 
+FIGURE_OUTPUTS = ("png", "tiff", "pdf", "svg")  # the 3D figure
+PLOT_OUTPUTS = tuple(f"{kind}.{fmt}" for kind in ("slice", "radial") for fmt in FIGURE_OUTPUTS)
+ANIMATION_OUTPUTS = ("gif", "mp4")
 MESH_OUTPUTS = ("glb", "gltf", "obj", "stl", "ply", "3mf")
 MODEL_OUTPUTS = ("model.stl", "model.3mf")
-OUTPUTS = ("png", *MESH_OUTPUTS, *MODEL_OUTPUTS)
+OUTPUTS = (*FIGURE_OUTPUTS, *MESH_OUTPUTS, *MODEL_OUTPUTS, *PLOT_OUTPUTS, *ANIMATION_OUTPUTS)
+SHEET_OUTPUTS = (*FIGURE_OUTPUTS, *PLOT_OUTPUTS)  # what a [[sheet]] of several orbitals makes
 _COMPANIONS = {"obj": ["mtl"], "gltf": ["bin"]}
+
+
+TITLE_FIELDS = ("label", "spec", "name", "fraction", "Z")
+
+
+def check_title(template: str | None) -> None:
+    """Refuse a title whose ``{placeholders}`` are not :data:`TITLE_FIELDS` (ValueError)."""
+    import string
+
+    if template is None:
+        return
+    try:
+        fields = [f for _, f, spec, conv in string.Formatter().parse(template) if f is not None]
+    except ValueError as error:
+        raise ValueError(f"{error} in {template!r} (write {{{{ and }}}} for braces)") from None
+    unknown = [f for f in fields if f not in TITLE_FIELDS]
+    if unknown:
+        raise ValueError(
+            f"unknown placeholder {{{unknown[0]}}} in {template!r} (known: "
+            + ", ".join(f"{{{f}}}" for f in TITLE_FIELDS)
+            + ")"
+        )
 
 
 def slug(spec: str, Z: float | None) -> str:
@@ -53,6 +91,13 @@ class Item:
         Files the item reads (potential tables) and the SHA-256 of their contents.
     where : str
         The file and item, for messages (``lab.toml: orbital 3 ('2pz')``).
+    plot : PlotOptions
+        The 2D plots' options (the ``plot`` table); the output names the kind.
+    animation : AnimationOptions
+        The animation's options (the ``animate`` table).
+    members : tuple of str
+        A ``[[sheet]]``'s specs, in panel order (sets such as ``3d`` allowed); empty for one
+        orbital. ``spec`` then joins them with spaces.
     """
 
     name: str
@@ -63,21 +108,48 @@ class Item:
     model: ModelOptions = field(default_factory=ModelOptions)
     inputs: tuple[tuple[str, str], ...] = ()
     where: str = ""
+    plot: PlotOptions = field(default_factory=PlotOptions)
+    animation: AnimationOptions = field(default_factory=AnimationOptions)
+    members: tuple[str, ...] = ()
+
+    def title(self, label: str) -> str | None:
+        """Return the title with its placeholders filled in (None: no title is drawn)."""
+        template = self.figure.title
+        if template is None:
+            return None
+        values = {
+            "label": label,
+            "spec": self.spec,
+            "name": self.name,
+            "fraction": f"{100 * self.physics.fraction:g}%",
+            "Z": f"{self.physics.Z:g}" if self.physics.Z is not None else "",
+        }
+        return template.format(**values)
 
     @property
     def mesh(self) -> MeshOptions:
         """The mesh options of the item's surface (shared by its figure, meshes and model)."""
         return MeshOptions(grid=self.figure.grid, colors=self.figure.colors)
 
+    def file_of(self, kind: str) -> str:
+        """Return the file one output kind writes: ``NAME.png``, ``NAME-slice.pdf``, ...
+
+        A model goes to ``NAME-model.EXT`` and a plot to ``NAME-slice.EXT`` or
+        ``NAME-radial.EXT``, or to ``NAME.EXT`` when the name already ends in that word (no
+        doubled suffix).
+        """
+        if kind in MODEL_OUTPUTS or kind in PLOT_OUTPUTS:
+            word, fmt = kind.split(".")
+            stem = self.name if self.name.endswith(f"-{word}") else f"{self.name}-{word}"
+            return f"{stem}.{fmt}"
+        return f"{self.name}.{kind}"
+
     def files(self) -> list[str]:
         """Every file the item writes, relative to the output folder (thumbnail included)."""
         out = []
         for kind in self.outputs:
-            if kind in MODEL_OUTPUTS:
-                out.append(f"{self.name}-model.{kind.split('.')[1]}")
-            else:
-                out.append(f"{self.name}.{kind}")
-                out += [f"{self.name}.{c}" for c in _COMPANIONS.get(kind, [])]
+            out.append(self.file_of(kind))
+            out += [f"{self.name}.{c}" for c in _COMPANIONS.get(kind, [])]
         return [*out, f"thumbs/{self.name}.png"]
 
     @property
@@ -91,6 +163,13 @@ class Item:
             "model": dataclasses.asdict(self.model)
             if any(o in MODEL_OUTPUTS for o in self.outputs)
             else None,
+            "plot": dataclasses.asdict(self.plot)
+            if any(o in PLOT_OUTPUTS for o in self.outputs)
+            else None,
+            "animation": dataclasses.asdict(self.animation)
+            if any(o in ANIMATION_OUTPUTS for o in self.outputs)
+            else None,
+            "members": list(self.members),
             "inputs": [list(i) for i in self.inputs],
             "version": __version__,
         }

@@ -19,10 +19,18 @@ from typing import Any
 from orbviz._defaults import LIMITS
 from orbviz._options import build, external_keys
 from orbviz.errors import OptionError, OrbvizError, SceneError
-from orbviz.figures.options import FigureOptions
+from orbviz.figures.options import AnimationOptions, FigureOptions, PlotOptions
 from orbviz.models.options import ModelOptions
-from orbviz.scenes.items import OUTPUTS, Item, slug
+from orbviz.scenes.items import (
+    ANIMATION_OUTPUTS,
+    OUTPUTS,
+    SHEET_OUTPUTS,
+    Item,
+    check_title,
+    slug,
+)
 from orbviz.states.angular import LABELS
+from orbviz.states.make import set_members
 from orbviz.states.physics import Physics
 from orbviz.states.potentials import TABLE_BYTES
 from orbviz.surface.options import MeshOptions
@@ -32,13 +40,18 @@ __all__ = ["Scene", "load_scene", "parse_scene"]
 _MAX_BYTES = 1_000_000
 _NAME = re.compile(r"[A-Za-z0-9][A-Za-z0-9._-]{0,99}")
 # one line each ([ \t], not \s, which spans blank lines and backtracks in quadratic time)
-_HEADER = re.compile(r"^[ \t]*\[\[[ \t]*(orbital|shells)[ \t]*\]\]", re.M)
+_HEADER = re.compile(r"^[ \t]*\[\[[ \t]*(orbital|shells|sheet)[ \t]*\]\]", re.M)
+_KINDS = ("orbital", "shells", "sheet")
 _SHELL_MAX = 12
 _PHYSICS = {v: k for k, v in external_keys(Physics).items()}
 _SHARED = {"grid", "colors"}  # common keys that go into the render and model tables
 _RENDER = {v: k for k, v in external_keys(FigureOptions).items() if v not in _SHARED}
 _MODEL = {v: k for k, v in external_keys(ModelOptions).items() if v not in _SHARED and v != "split"}
+_PLOT = {v: k for k, v in external_keys(PlotOptions).items() if v != "kind"}  # the output names it
+_ANIMATE = {v: k for k, v in external_keys(AnimationOptions).items() if v != "colors"}
+_TABLES = {"render": _RENDER, "model": _MODEL, "plot": _PLOT, "animate": _ANIMATE}
 _COMMON = set(_PHYSICS) | _SHARED | {"outputs", "atom"}
+_SHEET_MAX = 24  # panels of one sheet
 
 
 @dataclass(frozen=True)
@@ -66,8 +79,8 @@ def _layer(table: Any, where: _Where, allow: set[str]) -> dict[str, Any]:
     if not isinstance(table, dict):
         raise SceneError(f"{where}: expected a table, got {table!r}")
     for key, value in table.items():
-        if key in ("render", "model"):
-            known = _RENDER if key == "render" else _MODEL
+        if key in _TABLES:
+            known = _TABLES[key]
             if not isinstance(value, dict):
                 raise where.error(key, f"expected a table, got {value!r}")
             for sub in value:
@@ -76,16 +89,16 @@ def _layer(table: Any, where: _Where, allow: set[str]) -> dict[str, Any]:
                         f"{key}.{sub}", f"unknown key (known: {', '.join(sorted(known))})"
                     )
         elif key not in _COMMON and key not in allow:
-            known_keys = sorted(_COMMON | {"render", "model"} | allow)
+            known_keys = sorted(_COMMON | set(_TABLES) | allow)
             raise where.error(key, f"unknown key (known: {', '.join(known_keys)})")
     return dict(table)
 
 
 def _merge(defaults: dict[str, Any], own: dict[str, Any]) -> dict[str, Any]:
-    merged: dict[str, Any] = {"render": {}, "model": {}}
+    merged: dict[str, Any] = {table: {} for table in _TABLES}
     for layer in (defaults, own):
         for key, value in layer.items():
-            merged[key] = {**merged[key], **value} if key in ("render", "model") else value
+            merged[key] = {**merged[key], **value} if key in _TABLES else value
     return merged
 
 
@@ -100,10 +113,10 @@ def _options(
         raise where.error(error.key, error.rule) from None
 
 
-def _outputs(value: Any, where: _Where) -> tuple[str, ...]:
-    if not (isinstance(value, list) and value and all(v in OUTPUTS for v in value)):
+def _outputs(value: Any, where: _Where, allowed: tuple[str, ...]) -> tuple[str, ...]:
+    if not (isinstance(value, list) and value and all(v in allowed for v in value)):
         raise where.error(
-            "outputs", f"expected a non-empty list of {', '.join(OUTPUTS)}, got {value!r}"
+            "outputs", f"expected a non-empty list of {', '.join(allowed)}, got {value!r}"
         )
     return tuple(dict.fromkeys(value))
 
@@ -133,7 +146,12 @@ def _table(
 
 
 def _item(
-    name: Any, spec: str, values: dict[str, Any], where: _Where, base: Path, anywhere: bool
+    name: Any,
+    spec: str | list[str],
+    values: dict[str, Any],
+    where: _Where,
+    base: Path,
+    anywhere: bool,
 ) -> Item:
     physics = _options(
         Physics, {k: values[k] for k in _PHYSICS if k in values}, _PHYSICS, where, ""
@@ -155,25 +173,90 @@ def _item(
         where,
         "model.",
     )
-    outputs = _outputs(values.get("outputs", ["png", "glb"]), where)
-    atom = values.get("atom")
-    if atom is not None:
-        if not (isinstance(atom, str) and re.fullmatch(r"[A-Za-z]{1,2}", atom)):
-            raise where.error("atom", f"expected an element symbol such as Na, got {atom!r}")
-        spec = f"{atom}:{spec}"
+    plot = _options(PlotOptions, values["plot"], _PLOT, where, "plot.")
+    colors = {"colors": shared["colors"]} if "colors" in shared else {}
+    animation = _options(
+        AnimationOptions,
+        {**values["animate"], **colors},
+        {**_ANIMATE, "colors": "colors"},
+        where,
+        "animate.",
+    )
     try:
-        physics.state(spec)
-    except OrbvizError as error:
-        raise where.error("spec", str(error)) from None
+        check_title(figure.title)
+    except ValueError as error:
+        raise where.error("render.title", str(error)) from None
+    sheet = isinstance(spec, list)
+    allowed = SHEET_OUTPUTS if sheet else OUTPUTS
+    default = ["png"] if sheet else ["png", "glb"]
+    outputs = _outputs(values.get("outputs", default), where, allowed)
+    members = _members(spec if isinstance(spec, list) else [spec], values.get("atom"), where)
+    for member in members:
+        _check_state(
+            physics,
+            member,
+            where,
+            sheet=sheet,
+            animated=bool(set(outputs) & set(ANIMATION_OUTPUTS)),
+        )
+    text = " ".join(members)
     if name is None:
-        name = slug(spec, physics.Z)
+        name = slug(text, physics.Z)
     elif not (isinstance(name, str) and _NAME.fullmatch(name)):
         raise where.error(
             "name",
             f"{name!r} must be 1-100 letters, digits, '.', '_' or '-', starting with a letter "
             "or digit",
         )
-    return Item(name, spec, physics, outputs, figure, model, inputs, str(where))
+    item = Item(
+        name,
+        text,
+        physics,
+        outputs,
+        figure,
+        model,
+        inputs,
+        str(where),
+        plot=plot,
+        animation=animation,
+        members=tuple(members) if sheet else (),
+    )
+    files = item.files()
+    if len(set(map(str.lower, files))) < len(files):
+        raise where.error("outputs", f"two outputs would share a file name in {files}")
+    return item
+
+
+def _members(specs: list[str], atom: Any, where: _Where) -> list[str]:
+    """Return the specs with the item's element prefix; a set stays one spec (``3d``)."""
+    if atom is None:
+        return specs
+    if not (isinstance(atom, str) and re.fullmatch(r"[A-Za-z]{1,2}", atom)):
+        raise where.error("atom", f"expected an element symbol such as Na, got {atom!r}")
+    return [f"{atom}:{spec}" for spec in specs]
+
+
+def _check_state(
+    physics: Physics, spec: str, where: _Where, *, sheet: bool, animated: bool
+) -> None:
+    """Make the state(s) a spec names, so that a bad one is refused before any work."""
+    members = set_members(spec)
+    if members and not sheet:
+        raise where.error(
+            "spec",
+            f"{spec!r} names a set of {len(members)} orbitals: list it in a [[sheet]] for one "
+            "figure of them, or name one member",
+        )
+    try:
+        states = [physics.state(s) for s in members or [spec]]
+    except OrbvizError as error:
+        raise where.error("spec", str(error)) from None
+    if animated:
+        try:
+            for state in states:
+                state.beat()  # a state that does not move cannot be animated
+        except OrbvizError as error:
+            raise where.error("outputs", f"an animation (gif, mp4) needs motion: {error}") from None
 
 
 def _shell_specs(n: int) -> list[str]:
@@ -189,27 +272,49 @@ def _shell_specs(n: int) -> list[str]:
 
 def _entries(doc: dict[str, Any], text: str, source: str) -> list[tuple[str, int, Any]]:
     """(kind, index, table) in file order (TOML keeps order within an array, not across)."""
-    for kind in ("orbital", "shells"):
+    for kind in _KINDS:
         if not isinstance(doc.get(kind, []), list):
             raise SceneError(f"{source}: '{kind}' must be an array of tables ([[{kind}]])")
-    counters = {"orbital": 0, "shells": 0}
+    counters = dict.fromkeys(_KINDS, 0)
     sequence = []
     for kind in _HEADER.findall(text):
         if counters[kind] < len(doc.get(kind, [])):
             counters[kind] += 1
             sequence.append((kind, counters[kind], doc[kind][counters[kind] - 1]))
-    for kind in ("orbital", "shells"):  # tables written inline, without a [[...]] header
+    for kind in _KINDS:  # tables written inline, without a [[...]] header
         for index in range(counters[kind], len(doc.get(kind, []))):
             sequence.append((kind, index + 1, doc[kind][index]))
     return sequence
 
 
+def _sheet_specs(entry: dict[str, Any], where: _Where) -> list[str]:
+    specs = entry.get("specs")
+    if specs is None:
+        raise where.error("specs", 'missing: a list of specs, such as ["3d"] or ["3s", "3p"]')
+    if not (
+        isinstance(specs, list)
+        and 1 <= len(specs) <= _SHEET_MAX
+        and all(isinstance(s, str) and 0 < len(s) <= LIMITS.spec_chars for s in specs)
+    ):
+        raise where.error(
+            "specs", f"expected a list of 1 to {_SHEET_MAX} spec texts, got {specs!r}"[:300]
+        )
+    panels = sum(len(set_members(s) or [s]) for s in specs)
+    if panels > _SHEET_MAX:
+        raise where.error("specs", f"{panels} panels; a sheet holds at most {_SHEET_MAX}")
+    return specs
+
+
 def _expand(
     kind: str, index: int, entry: Any, source: str
-) -> tuple[_Where, list[tuple[str, Any]], dict[str, Any]]:
+) -> tuple[_Where, list[tuple[Any, Any]], dict[str, Any]]:
     where = _Where(source, f"{kind} {index}")
     if not isinstance(entry, dict):
         raise SceneError(f"{where}: expected a table, got {entry!r}")
+    if kind == "sheet":
+        specs = _sheet_specs(entry, where)
+        where = _Where(source, f"sheet {index} ({' '.join(specs)!r})"[:300])
+        return where, [(specs, entry.get("name"))], _layer(entry, where, {"specs", "name"})
     if kind == "orbital":
         spec = entry.get("spec")
         if spec is None:
@@ -280,11 +385,11 @@ def parse_scene(
         not make a state, each naming the file, the item and the key.
     """
     doc = _document(text, source)
-    unknown = set(doc) - {"defaults", "orbital", "shells", "title"}
+    unknown = set(doc) - {"defaults", "title", *_KINDS}
     if unknown:
         raise SceneError(
             f"{source}: unknown table {sorted(unknown)[0]!r} (known: defaults, orbital, shells, "
-            "title)"
+            "sheet, title)"
         )
     title = doc.get("title", Path(source).stem)
     if not (isinstance(title, str) and len(title) <= 200):
@@ -301,7 +406,7 @@ def parse_scene(
             items.append(_item(name, spec, values, where, Path(base), tables_anywhere))
             _claim_names(owners, items[-1], source)
     if not items:
-        raise SceneError(f"{source}: no items: add [[orbital]] or [[shells]] tables")
+        raise SceneError(f"{source}: no items: add [[orbital]], [[shells]] or [[sheet]] tables")
     return Scene(title, items)
 
 

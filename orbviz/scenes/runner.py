@@ -18,7 +18,6 @@ from __future__ import annotations
 
 import concurrent.futures as cf
 import contextlib
-import dataclasses
 import os
 import sys
 import threading
@@ -28,13 +27,13 @@ from pathlib import Path
 from typing import Any
 
 from orbviz.errors import OrbvizError, OutputError
-from orbviz.scenes.items import MESH_OUTPUTS, MODEL_OUTPUTS, Item
+from orbviz.scenes.items import Item
 from orbviz.scenes.manifest import folder_lock, previous, unchanged, write_manifest
+from orbviz.scenes.outputs import THUMBNAIL, item_files
 from orbviz.scenes.sheet import write_contact_sheet
 
 __all__ = ["THUMBNAIL", "plan_jobs", "run_item", "run_scene"]
 
-THUMBNAIL = (320, 240)
 _WORKER_BASE_BYTES = 600 * 2**20  # a worker's imports and render window, measured ~450-550 MB
 _parent: int | None = None  # the batch process a worker serves (None outside a batch pool)
 
@@ -94,49 +93,6 @@ def _rss_mb() -> float | None:
     return None
 
 
-def _item_files(item: Item, out: Path) -> tuple[dict[Path, bytes], dict[str, Any]]:
-    """Every file of one item, as bytes by path, and the numbers for its manifest entry."""
-    from orbviz.export import encode_bodies
-    from orbviz.figures.figure import figure
-    from orbviz.models.build import build_model
-    from orbviz.surface.mesh import build_mesh
-
-    state = item.physics.state(item.spec)
-    fraction = item.physics.fraction
-    mesh = build_mesh(state, item.mesh, fraction=fraction, half_width=item.figure.extent)
-    files: dict[Path, bytes] = {}
-    for kind in (o for o in item.outputs if o in MESH_OUTPUTS):
-        files.update(
-            encode_bodies(mesh.bodies, out / f"{item.name}.{kind}", scale=1.0, units="bohr")
-        )
-    looks = item.figure
-    if "png" not in item.outputs:
-        looks = dataclasses.replace(looks, size=THUMBNAIL, scale=1.0)
-    with figure(state, looks, fraction=fraction, mesh=mesh) as fig:
-        png = fig.png()
-        thumb = fig.png(size=THUMBNAIL)
-    if "png" in item.outputs:
-        files[out / f"{item.name}.png"] = png
-    files[out / "thumbs" / f"{item.name}.png"] = thumb
-    if any(o in MODEL_OUTPUTS for o in item.outputs):
-        # the figure's mesh serves the model too, unless a fixed extent changed its box
-        shared = mesh if item.figure.extent is None else None
-        model = build_model(state, item.model, fraction=fraction, mesh=shared)
-        for kind in (o for o in item.outputs if o in MODEL_OUTPUTS):
-            files.update(model.files(out / f"{item.name}-model.{kind.split('.')[1]}"))
-    report = mesh.report()
-    numbers = {
-        "isovalue": report["isovalue"],
-        "fraction": report["fraction"],
-        "enclosed_fraction": report["isovalue_enclosed_fraction"],
-        "faces": report["faces"],
-        "vertices": report["vertices"],
-        "watertight": report["watertight"],
-        "volume_bohr3": sum(b["volume_bohr3"] for b in report["bodies"]),
-    }
-    return files, numbers
-
-
 def run_item(item: Item, out_dir: str) -> dict[str, Any]:
     """Make every output of one item in ``out_dir``, all files or none; never raises for a bad item.
 
@@ -156,7 +112,7 @@ def run_item(item: Item, out_dir: str) -> dict[str, Any]:
     out = Path(out_dir)
     entry: dict[str, Any] = {"name": item.name, "spec": item.spec, "hash": item.digest}
     try:
-        files, numbers = _item_files(item, out)
+        files, numbers = item_files(item, out)
         if _orphaned():  # the batch is gone: write nothing it would not list
             os._exit(1)
         (out / "thumbs").mkdir(parents=True, exist_ok=True)
@@ -354,7 +310,9 @@ def _run_items(
     if progress:
         from tqdm import tqdm
 
-        bar = tqdm(total=len(todo), unit="item", desc="orbviz batch", dynamic_ncols=True)
+        bar = tqdm(
+            total=len(todo), unit="item", desc="orbviz batch", dynamic_ncols=True, disable=None
+        )
     futures: dict[cf.Future[dict[str, Any]], Item] = {}
     try:
         futures = {pool.submit(run_item, item, str(out)): item for item in todo}

@@ -12,6 +12,12 @@ from typing import Any
 __all__ = ["write_contact_sheet"]
 
 
+def _kind(file: str, name: str) -> str:
+    """Name a file by what follows the item's name: ``png``, ``slice.pdf``, ``model.3mf``."""
+    rest = Path(file).name[len(name) :].lstrip(".-")
+    return rest or Path(file).suffix[1:] or file
+
+
 def write_contact_sheet(out: Path, manifest: dict[str, Any]) -> Path:
     """Write ``index.html``: a grid of thumbnails with labels, key numbers and file links."""
     from orbviz.export import write_files
@@ -28,18 +34,20 @@ def write_contact_sheet(out: Path, manifest: dict[str, Any]) -> Path:
             )
             continue
         links = " ".join(
-            f'<a href="{html.escape(f)}">{html.escape(Path(f).suffix[1:] or f)}</a>'
-            if not f.endswith(("-model.stl", "-model.3mf"))
-            else f'<a href="{html.escape(f)}">model {html.escape(Path(f).suffix[1:])}</a>'
+            f'<a href="{html.escape(f)}">{html.escape(_kind(f, entry["name"]))}</a>'
             for f in entry.get("files", [])
         )
-        numbers = (
-            f"{100 * entry.get('fraction', 0):g}% at |ψ|² = {entry.get('isovalue', 0):.3g} "
-            f"bohr⁻³ · {entry.get('faces', 0):,} faces"
-        )
+        if "isovalue" in entry:
+            numbers = (
+                f"{100 * entry.get('fraction', 0):g}% at |ψ|² = {entry['isovalue']:.3g} "
+                f"bohr⁻³ · {entry.get('faces', 0):,} faces"
+            )
+        else:
+            numbers = f"{entry.get('panels', 0)} panels · {100 * entry.get('fraction', 0):g}%"
+        alt = html.escape(entry.get("alt_text") or entry["name"], quote=True)
         cards.append(
             f'<figure class="card"><img src="{html.escape(entry.get("thumbnail", ""))}" '
-            f'alt="{name}" width="320" height="240"><figcaption><b>{name}</b> '
+            f'alt="{alt}" title="{alt}"><figcaption><b>{name}</b> '
             f'<code>{spec}</code><br><span class="num">{numbers}</span><br>{links}'
             "</figcaption></figure>"
         )
@@ -56,7 +64,8 @@ figcaption {{ padding: 4px 2px; }}
 </style></head>
 <body><h1>{html.escape(manifest["title"])}</h1>
 <p>{len(manifest["items"])} items; numbers are the enclosed probability, the isovalue and the
-face count. Made by orbviz.</p>
+face count (or a sheet's panels). Each picture's description is its alt text. Made by
+orbviz.</p>
 <div class="grid">
 {chr(10).join(cards)}
 </div>
