@@ -170,7 +170,7 @@ class Figure:
             old = self.panels[self._current]
             for names in old.overlays.values():
                 for name in names:
-                    self.plotter.remove_actor(name)
+                    self.plotter.remove_actor(name, render=False)
             old.overlays = {}
         self._current = -1
 

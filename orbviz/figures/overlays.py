@@ -75,6 +75,7 @@ def add_bodies(
             ambient=0.55 if flat else 0.18,
             diffuse=0.85,
             name=f"{prefix}{name}",
+            render=False,
         )
         names.append(f"{prefix}{name}")
     return names
@@ -94,7 +95,9 @@ def add_members(plotter: Any, members: Sequence[OrbitalMesh], *, prefix: str = "
                 if name != "negative"
                 else {"color": (0.6, 0.6, 0.6), "opacity": 0.35}
             )
-            plotter.add_mesh(poly, smooth_shading=True, name=f"{prefix}{k}-{name}", **style)
+            plotter.add_mesh(
+                poly, smooth_shading=True, name=f"{prefix}{k}-{name}", render=False, **style
+            )
             names.append(f"{prefix}{k}-{name}")
     return names
 
@@ -131,7 +134,7 @@ def add_caps(
             colour: Any = 0.65 * np.array(options.colors[index][:3]) / 255.0 + 0.35
             if not grid.field.state.is_real:
                 colour = (0.75, 0.75, 0.75)
-            plotter.add_mesh(part, color=colour, name=name, lighting=False)
+            plotter.add_mesh(part, color=colour, name=name, lighting=False, render=False)
             names.append(name)
     return names
 
@@ -162,7 +165,7 @@ def add_nodes(
     for k, r0 in enumerate(nodes.spheres):
         name = f"{prefix}radial-node-{k}"
         sphere = pyvista.Sphere(radius=r0, theta_resolution=96, phi_resolution=48)
-        plotter.add_mesh(sphere, name=name, **_NODE_STYLE)
+        plotter.add_mesh(sphere, name=name, render=False, **_NODE_STYLE)
         out["radial_nodes"].append(name)
     surfaces: list[tuple[str, Any]] = [
         (
@@ -173,7 +176,7 @@ def add_nodes(
     ]
     surfaces += [(f"{prefix}angular-cone-{k}", _cone(radius, t)) for k, t in enumerate(nodes.cones)]
     for name, surface in surfaces:
-        plotter.add_mesh(surface, name=name, **_NODE_STYLE)
+        plotter.add_mesh(surface, name=name, render=False, **_NODE_STYLE)
         out["angular_nodes"].append(name)
     return out
 
@@ -190,7 +193,7 @@ def add_axis_lines(plotter: Any, radius: float, *, prefix: str = "") -> list[str
     for label, direction in zip("xyz", np.eye(3), strict=True):
         name = f"{prefix}axis-{label}"
         line = pyvista.Line(tuple(-radius * direction), tuple(radius * direction))
-        plotter.add_mesh(line, color=_AXIS_INK, line_width=2, name=name)
+        plotter.add_mesh(line, color=_AXIS_INK, line_width=2, name=name, render=False)
         tip = f"{prefix}axis-label-{label}"
         plotter.add_point_labels(
             np.array([1.06 * radius * direction]),
@@ -201,6 +204,7 @@ def add_axis_lines(plotter: Any, radius: float, *, prefix: str = "") -> list[str
             shape=None,
             show_points=False,
             always_visible=True,
+            render=False,
         )
         names += [name, tip]
     return names
