@@ -215,6 +215,7 @@ def test_interrupt_during_mesh_write_leaves_nothing_new(tmp_path):
     print(f"mesh run {duration:.2f} s; interrupts (delay s, signal, old file, status): {outcomes}")
 
 
+@pytest.mark.slow
 @pytest.mark.parametrize("sig", [signal.SIGINT, signal.SIGTERM], ids=["SIGINT", "SIGTERM"])
 @pytest.mark.parametrize("program", ["-m orbviz", "orbviz script"])
 def test_interrupt_once_the_file_is_in_place_is_too_late(tmp_path, sig, program):
@@ -535,6 +536,7 @@ def test_rerun_redoes_exactly_the_damaged_items(tmp_path):
     assert [e["status"] for e in third["items"]] == ["skipped"] * 3
 
 
+@pytest.mark.slow
 def test_pending_entry_names_every_file_its_item_writes(tmp_path):
     # orbviz/scenes/runner.py: before any worker starts, an item to do is listed as pending with
     # every file it may write (Item.files()), so that no file of a batch killed mid-item is

@@ -15,6 +15,8 @@ from PIL import Image
 
 from orbviz.cli import main
 
+pytestmark = pytest.mark.slow  # one whole batch of every output kind (about 7 s)
+
 SCENE = """
 title = "Harlowmere Study Circle: test set"
 [defaults]
