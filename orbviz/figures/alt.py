@@ -22,7 +22,7 @@ from orbviz.surface.contour import Body
 if TYPE_CHECKING:
     from orbviz.figures.figure import Figure, Panel
 
-__all__ = ["Lobe", "describe_figure", "describe_panel", "lobes", "nodal_text"]
+__all__ = ["Lobe", "describe_figure", "describe_panel", "describe_panels", "lobes", "nodal_text"]
 
 _AXES = {
     "+x": (1, 0, 0),
@@ -257,8 +257,8 @@ def _colour_names(fig: Figure) -> list[str]:
     return ["#{:02X}{:02X}{:02X}".format(*c[:3]) for c in fig.options.colors]
 
 
-def describe_figure(fig: Figure) -> str:
-    """Return the whole figure in words: each panel, and the title if there is one."""
+def describe_panels(fig: Figure) -> str:
+    """Return every panel of the figure in words (without the title)."""
     colors, units = _colour_names(fig), fig.options.units
     texts = []
     for panel in fig.panels:
@@ -271,5 +271,10 @@ def describe_figure(fig: Figure) -> str:
         else:
             prefix = f"Panel {panel.label.split(' ')[0]} " if panel.label.startswith("(") else ""
             texts.append(prefix + describe_panel(panel, units=units, colors=colors))
+    return " ".join(texts)
+
+
+def describe_figure(fig: Figure) -> str:
+    """Return the whole figure in words: each panel, and the title if there is one."""
     title = f"{fig.options.title}. " if fig.options.title else ""
-    return title + " ".join(texts)
+    return title + describe_panels(fig)

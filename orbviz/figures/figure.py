@@ -116,6 +116,7 @@ class Figure:
     axis_lines: bool = False
     view: tuple[float, float] = (35.0, 25.0)
     _current: int = -1
+    _alt: tuple[Any, str] | None = None
 
     def __repr__(self) -> str:
         page = geometry(self.options, *self.layout)
@@ -241,9 +242,13 @@ class Figure:
     @property
     def alt_text(self) -> str:
         """A description of the figure from the physics, for readers who cannot see it."""
-        from orbviz.figures.alt import describe_figure
+        from orbviz.figures.alt import describe_panels
 
-        return describe_figure(self)
+        key = (tuple(id(p) for p in self.panels), self.options.units, self.options.colors)
+        if self._alt is None or self._alt[0] != key:  # computed once per set of panels
+            self._alt = (key, describe_panels(self))
+        title = f"{self.options.title}. " if self.options.title else ""
+        return title + self._alt[1]
 
     def page(self, *, show_progress: bool = True) -> Page:
         """Render every panel and lay them out with their labels, key and scale bar."""
@@ -305,12 +310,12 @@ class Figure:
         )
         try:
             self._hide()
-            self.plotter.window_size = list(geometry(self.options, *self.layout).panel)
+            self.plotter.render_window.SetSize(*geometry(self.options, *self.layout).panel)
             return self.page(show_progress=False).encode(".png")
         finally:
             self._hide()
             self.options = saved
-            self.plotter.window_size = window
+            self.plotter.render_window.SetSize(*window)  # the next screenshot renders anew
 
     def save(self, path: str | os.PathLike[str]) -> Path:
         """Render and write a PNG, TIFF, PDF or SVG (by suffix), all or nothing."""

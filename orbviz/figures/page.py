@@ -195,16 +195,21 @@ class Page:
         g = self.geometry
         col, row = where
         (pw, ph), rows = g.panel, self.layout[1]
-        ax = self.figure.add_axes(self._box(col * pw, g.bottom + (rows - 1 - row) * ph, pw, ph))
+        left, bottom = col * pw, g.bottom + (rows - 1 - row) * ph
+        ax = self.figure.add_axes(self._box(left, bottom, pw, ph))
         h, w = panel.rgba.shape[:2]
         half_w = panel.half_height * w / h
-        ax.imshow(
-            panel.rgba,
-            extent=(-half_w, half_w, -panel.half_height, panel.half_height),
-            interpolation="none",
-            origin="upper",
-            aspect="auto",
-        )
+        if (w, h) == (pw, ph):  # pixel for pixel: placed as it is, no resampling
+            self.figure.figimage(panel.rgba, xo=left, yo=bottom, origin="upper", zorder=-1)
+            ax.patch.set_visible(False)
+        else:
+            ax.imshow(
+                panel.rgba,
+                extent=(-half_w, half_w, -panel.half_height, panel.half_height),
+                interpolation="none",
+                origin="upper",
+                aspect="auto",
+            )
         ax.set_xlim(-half_w, half_w)
         ax.set_ylim(-panel.half_height, panel.half_height)
         ax.set_axis_off()
