@@ -182,7 +182,13 @@ ALT = [
         (4, 4),
         ["The psi > 0 part (dark blue): four lobes, along +x, along +y, along -x and along -y"],
     ),
-    ("2sp3[1]", None, ["one lobe, towards the (+x, +y, +z) octant"]),
+    # (2s + 2px + 2py + 2pz)/2: its large lobe points along (1, 1, 1); psi = 0 where
+    # R_20 + R_21 (x + y + z)/r = 0, a curved sheet, not a plane, cone or sphere
+    (
+        "2sp3[1]",
+        None,
+        ["one lobe, towards the (+x, +y, +z) octant", "meet at a curved nodal surface"],
+    ),
     (
         "3,2,1",
         None,

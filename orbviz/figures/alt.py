@@ -243,7 +243,14 @@ def describe_panel(panel: Panel, *, units: str, colors: Sequence[str]) -> str:
         sentences.append(f"{words[phase]}: {text}" if words[phase] else text.capitalize())
     eig = state.eigenstate
     z_line = eig is not None and eig.form == "complex" and eig.m != 0
-    sentences.append(nodal_text(state.nodal_surfaces(), units, z_line=z_line))
+    nodes = state.nodal_surfaces()
+    both = {"positive", "negative"} <= {x.phase for x in found}
+    if both and not (nodes.spheres or nodes.planes or nodes.cones):
+        # a superposition's nodal surface is in general curved (a hybrid's is one sheet
+        # between its large and small lobe): there is no plane, cone or sphere to name
+        sentences.append("The two phases meet at a curved nodal surface")
+    else:
+        sentences.append(nodal_text(nodes, units, z_line=z_line))
     reach = max(float(np.linalg.norm(b.vertices, axis=1).max()) for b in mesh.bodies)
     sentences.append(f"It reaches {_length(reach, units)} from the centre")
     return ". ".join(sentences) + "."
