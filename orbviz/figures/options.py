@@ -128,6 +128,15 @@ def _image_option(default: tuple[int, int], help: str) -> Any:
     return option(default, f"{help}, 16 to 8192 a side", pixel_size, unit="pixels", metavar="WxH")
 
 
+def _length_option(help: str) -> Any:
+    """Return a printed width or height option: ``85mm``, ``8.5cm`` or ``3.35in``, kept in mm."""
+    return option(None, help, print_length, metavar="LENGTH")
+
+
+def _dpi_option(help: str) -> Any:
+    return option(300, f"{help}, 72 to 2400", integer(72, 2400), metavar="N")
+
+
 @dataclass(frozen=True)
 class FigureOptions:
     """How a 3D figure looks.
@@ -191,21 +200,11 @@ class FigureOptions:
     scale: float = option(
         1.0, "resolution multiplier, 0.25 to 8 (2 for print)", number(0.25, 8.0), metavar="K"
     )
-    width: float | None = option(
-        None,
-        "printed width, 10 to 1000 mm, as 85mm, 8.5cm or 3.35in (sets the pixels with --dpi)",
-        print_length,
-        metavar="LENGTH",
+    width: float | None = _length_option(
+        "printed width, 10 to 1000 mm, as 85mm, 8.5cm or 3.35in (sets the pixels with --dpi)"
     )
-    height: float | None = option(
-        None,
-        "printed height, as --width (default: from the layout)",
-        print_length,
-        metavar="LENGTH",
-    )
-    dpi: int = option(
-        300, "resolution at the printed size, 72 to 2400", integer(72, 2400), metavar="N"
-    )
+    height: float | None = _length_option("printed height, as --width (default: from the layout)")
+    dpi: int = _dpi_option("resolution at the printed size")
     view: tuple[float, float] | None = option(
         None,
         "camera direction: iso, x, y, z, or AZ,EL in degrees (default: iso; 20,55 for sheets "
@@ -377,18 +376,11 @@ class PlotOptions:
         text(200, allow_none=True),
         metavar="TEXT",
     )
-    width: float | None = option(
-        None,
-        "printed width, 10 to 1000 mm, as 85mm, 8.5cm or 3.35in (default: from the kind)",
-        print_length,
-        metavar="LENGTH",
+    width: float | None = _length_option(
+        "printed width, 10 to 1000 mm, as 85mm, 8.5cm or 3.35in (default: from the kind)"
     )
-    height: float | None = option(
-        None, "printed height, as --width (default: from the width)", print_length, metavar="LENGTH"
-    )
-    dpi: int = option(
-        300, "resolution of PNG and TIFF output, 72 to 2400", integer(72, 2400), metavar="N"
-    )
+    height: float | None = _length_option("printed height, as --width (default: from the width)")
+    dpi: int = _dpi_option("resolution of PNG and TIFF output")
 
     def inches(self, natural: tuple[float, float]) -> tuple[float, float]:
         """Return the printed size in inches: the options' width and height, else ``natural``.
