@@ -400,3 +400,20 @@ def test_dxy_and_dx2_y2_panels_look_different_in_a_sheet():
     overlap = np.sum(masks[0] & masks[1]) / np.sum(masks[0] | masks[1])
     assert min(m.sum() for m in masks) > 500
     assert overlap < 0.5
+
+
+@pytest.mark.parametrize("specs", [["3d"], ["4,2,1"]])
+def test_every_text_is_at_least_6_pt_at_print_size(specs):
+    # journals ask for text of at least 6 pt at the printed size (common practice, no source)
+    from matplotlib.text import Text
+
+    from orbviz.figures.figure import sheet
+    from orbviz.states.make import set_members
+
+    states = [orbviz.state(s) for spec in specs for s in set_members(spec) or [spec]]
+    options = FigureOptions(grid=32, width=85.0, dpi=150, title="a title")
+    with sheet(states, options, oriented=len(states) > 1) as fig:
+        page = fig.page(show_progress=False)
+        texts = [t for t in page.figure.findobj(Text) if t.get_text().strip()]
+        assert len(texts) >= 3  # the title, labels or wheel, the scale bar
+        assert min(t.get_fontsize() for t in texts) >= 6.0

@@ -52,7 +52,7 @@ def _wheel(ax: Any) -> None:
         "−π/2": (0, -1.08, "center", "top"),
     }
     for text, (x, y, ha, va) in marks.items():
-        ax.text(x, y, text, ha=ha, va=va, fontsize=SMALL_PT * 0.9, color=_INK)
+        ax.text(x, y, text, ha=ha, va=va, fontsize=SMALL_PT, color=_INK)
     ax.text(0, -1.75, "arg ψ", ha="center", va="top", fontsize=SMALL_PT, color=_INK)
     ax.set_xlim(-1.9, 1.9)
     ax.set_ylim(-2.5, 1.5)
