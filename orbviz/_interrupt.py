@@ -12,6 +12,7 @@ recorded but not raised, so exit status 130 always means that nothing new was wr
 
 from __future__ import annotations
 
+import os
 import signal
 import threading
 from types import FrameType
@@ -34,10 +35,28 @@ class Interrupted(KeyboardInterrupt):
     """
 
 
+def _importing(frame: FrameType | None) -> bool:
+    """Tell whether the interrupted code is inside an import (a module still initialising)."""
+    while frame is not None:
+        if frame.f_code.co_filename.startswith("<frozen importlib._bootstrap"):
+            return True
+        frame = frame.f_back
+    return False
+
+
 def _handler(signum: int, frame: FrameType | None) -> None:
     _pending.set()
-    if not _finished.is_set():
-        raise Interrupted
+    if _finished.is_set():
+        return
+    if _importing(frame):
+        # An exception raised while a compiled extension (VTK) initialises can leave it half
+        # made and crash the interpreter (a segmentation fault instead of exit 130). Let the
+        # import finish: the signal comes again in 50 ms and is raised then.
+        retry = threading.Timer(0.05, os.kill, (os.getpid(), signum))
+        retry.daemon = True
+        retry.start()
+        return
+    raise Interrupted
 
 
 def install() -> dict[int, Any]:
