@@ -417,3 +417,23 @@ def test_every_text_is_at_least_6_pt_at_print_size(specs):
         texts = [t for t in page.figure.findobj(Text) if t.get_text().strip()]
         assert len(texts) >= 3  # the title, labels or wheel, the scale bar
         assert min(t.get_fontsize() for t in texts) >= 6.0
+
+
+def test_a_set_in_one_panel_keys_its_members_not_the_phases(tmp_path):
+    out = tmp_path / "sp3.svg"
+    assert main(["render", "2sp3", "--overlay", "--grid", "32", "-o", str(out)]) == 0
+    svg = out.read_text()
+    for k in range(1, 5):
+        assert f"2sp3[{k}]" in svg
+    assert "small lobes" in svg and "ψ &gt; 0" not in svg and "ψ > 0" not in svg
+
+
+def test_the_default_view_does_not_look_down_a_hybrid_lobe():
+    # 2sp3[1] = (2s + 2px + 2py + 2pz)/2 points along (1, 1, 1)/sqrt 3 (closed form), which is
+    # 10 degrees from the iso camera (azimuth 35, elevation 25): seen end on it is a disc
+    from orbviz.figures.camera import camera_axes
+
+    with figure(orbviz.state("2sp3[1]"), FigureOptions(grid=32, size=(200, 150))) as fig:
+        toward = camera_axes(fig.view)[0]
+    angle = math.degrees(math.acos(abs(toward @ (np.ones(3) / math.sqrt(3)))))
+    assert angle >= 30

@@ -134,6 +134,18 @@ def test_thumbnail_text_is_sized_for_the_thumbnail(batch):
     assert height >= 10  # measured 15 px here; the shrunk full-size figure gives 6
 
 
+def test_an_item_of_plots_or_a_movie_shows_what_it_makes(batch):
+    out, entries = batch
+    # a sheet that makes only its radial plot: the thumbnail and the description are the plot's
+    # (3s has nodes at (9 -+ 3 sqrt 3)/2 bohr, Bethe & Salpeter 1957: 1.01 and 3.76 angstrom)
+    assert entries["n3"]["alt_text"].startswith("Radial distribution of 3s")
+    assert "radial nodes at 1.01, 3.76 Å" in entries["n3"]["alt_text"]
+    with Image.open(out / "thumbs" / "n3.png") as image:
+        assert image.size[0] == 320  # drawn at the thumbnail's size, not shrunk
+    assert entries["beat"]["alt_text"].startswith("1s + 2pz in motion: 5 frames")
+    assert "faces" not in entries["beat"]
+
+
 def test_alt_text_reaches_the_manifest_and_the_contact_sheet(batch):
     out, entries = batch
     alt = entries["3dz2"]["alt_text"]

@@ -14,6 +14,7 @@ manager), or many figures in one process grow without bound.
 
 from __future__ import annotations
 
+import math
 import os
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
@@ -32,6 +33,7 @@ from orbviz.figures.options import SET_VIEW, VIEWS, FigureOptions
 from orbviz.figures.overlays import add_axis_lines, add_bodies, add_caps, add_members, add_nodes
 from orbviz.figures.page import PAGE_SUFFIXES, Page, PanelImage, geometry
 from orbviz.states.state import State
+from orbviz.surface.colors import SET_PALETTE
 from orbviz.surface.mesh import OrbitalMesh, build_mesh
 from orbviz.surface.options import MeshOptions
 
@@ -262,6 +264,10 @@ class Figure:
                 self.half_height,
                 p.label,
                 not p.state.is_real and not p.members,
+                tuple(
+                    (m.state.label, SET_PALETTE[j % len(SET_PALETTE)])
+                    for j, m in enumerate(p.members)
+                ),
             )
             for k, p in steps
         ]
@@ -360,12 +366,41 @@ def _layout(count: int, options: FigureOptions) -> tuple[int, int]:
     return cols, -(-count // cols)
 
 
-def _default_view(states: Sequence[State], oriented: bool) -> tuple[float, float]:
-    """Return the set view for d and f sets that differ by orientation, else iso."""
-    atoms = [s.eigenstate for s in states]
+def _lobe_axes(panels: Sequence[Panel]) -> list[np.ndarray]:
+    """Return the directions of the lopsided positive parts shown (a hybrid's large lobe)."""
+    axes = []
+    for panel in panels:
+        for mesh in panel.shown:
+            for body in mesh.bodies:
+                if body.name == "negative" or not len(body.vertices):
+                    continue
+                centre = body.vertices.mean(axis=0)
+                reach = float(np.abs(body.vertices).max())
+                if np.linalg.norm(centre) > 0.25 * reach:  # not centred on the nucleus
+                    axes.append(centre / np.linalg.norm(centre))
+    return axes
+
+
+def _default_view(panels: Sequence[Panel], oriented: bool) -> tuple[float, float]:
+    """Return the set view for d and f sets that differ by orientation, else iso.
+
+    Iso is turned when it looks within 30 degrees along a lobe (the demo's 2sp3[1] points at
+    (1, 1, 1), nearly at the iso camera, and showed as a disc): the view kept is the one, at
+    elevations 10 to 40 degrees, farthest from every lobe's axis.
+    """
+    atoms = [p.state.eigenstate for p in panels]
     if oriented and all(a is not None and a.l >= 2 for a in atoms):
         return SET_VIEW
-    return VIEWS["iso"]
+    axes = _lobe_axes(panels)
+
+    def clearance(view: tuple[float, float]) -> float:
+        toward = camera_axes(view)[0]
+        return min((math.degrees(math.acos(min(1.0, abs(toward @ a)))) for a in axes), default=90)
+
+    if clearance(VIEWS["iso"]) >= 30:
+        return VIEWS["iso"]
+    candidates = [(float(az), float(el)) for el in (25, 10, 40) for az in range(0, 360, 15)]
+    return max(candidates, key=clearance)
 
 
 def _compose(
@@ -386,7 +421,7 @@ def _compose(
 
     plotter = pyvista.Plotter(off_screen=True, window_size=panel_pixels, lighting="none")
     fig = Figure(plotter, panels, options, (cols, rows), axis_lines=axis_lines)
-    fig.view = options.view or _default_view([p.state for p in panels], oriented)
+    fig.view = options.view or _default_view(panels, oriented)
     try:
         vertices = np.vstack([b.vertices for p in panels for m in p.shown for b in m.bodies])
         if axis_lines:  # frame the axes and their labels too

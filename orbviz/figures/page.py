@@ -20,7 +20,7 @@ import numpy as np
 from orbviz import __version__
 from orbviz._defaults import BOHR_IN_ANGSTROM
 from orbviz.figures.options import FigureOptions
-from orbviz.surface.colors import ColorPair, phase_colors
+from orbviz.surface.colors import phase_colors
 
 __all__ = [
     "encode_figure",
@@ -34,6 +34,7 @@ __all__ = [
 
 PAGE_SUFFIXES = (".png", ".tiff", ".tif", ".pdf", ".svg")
 _INK = "#141414"
+_SMALL_LOBES = (153, 153, 153)  # the grey of a set's small lobes (figures.overlays.add_members)
 TITLE_PT, LABEL_PT, SMALL_PT = 8.0, 7.0, 6.5  # at print size: 6-8 pt (common practice)
 
 
@@ -79,12 +80,15 @@ class PanelImage:
         Panel label ("(a) 3dxy"), or empty.
     complex_phase : bool
         The panel is coloured by phase angle (it needs the phase wheel).
+    members : tuple of (str, (int, int, int))
+        A set drawn in one panel: each member's label and colour (its key replaces the phases').
     """
 
     rgba: np.ndarray
     half_height: float
     label: str = ""
     complex_phase: bool = False
+    members: tuple[tuple[str, tuple[int, int, int]], ...] = ()
 
 
 @dataclass(frozen=True)
@@ -182,7 +186,13 @@ class Page:
         if options.scale_bar:
             self._scale_bar(strip if strip is not None else self.axes[-1])
         if options.key:
-            self._key(any(p.complex_phase for p in panels), options.colors, strip)
+            if any(p.complex_phase for p in panels):
+                self._wheel(strip)
+            else:
+                members = next((p.members for p in panels if p.members), ())
+                entries = [(c, name) for name, c in members] + [(_SMALL_LOBES, "small lobes")]
+                phases = [(options.colors[0][:3], "ψ > 0"), (options.colors[1][:3], "ψ < 0")]
+                self._key(entries if members else phases, strip)
 
     def _box(
         self, left: float, bottom: float, width: float, height: float
@@ -260,38 +270,44 @@ class Page:
             fontsize=SMALL_PT,
         )
 
-    def _key(self, phase_wheel: bool, colors: ColorPair, strip: Any) -> None:
-        """Say which colour is which phase: two swatches or the phase wheel.
+    def _wheel(self, strip: Any) -> None:
+        """Draw the key of a complex state, the phase wheel, at the top right or in the strip."""
+        g = self.geometry
+        box = SMALL_PT / 72 * g.dpi
+        size = 9.0 * box if strip is None else 0.95 * g.bottom
+        left = g.width - 1.05 * size if strip is None else 0.02 * g.width
+        low = g.height - 1.05 * size if strip is None else 0.02 * g.bottom
+        _wheel(self.figure.add_axes(self._box(left, low, size, size)))
 
-        They go at the top right of one panel, or into a sheet's legend strip.
+    def _key(self, entries: Sequence[tuple[Sequence[int], str]], strip: Any) -> None:
+        """Say which colour is which: swatches with their words (the phases, or a set's members).
+
+        They stack at the top right of one panel, or stand side by side in a sheet's strip.
         """
         from matplotlib.patches import Rectangle
 
         g = self.geometry
         box = SMALL_PT / 72 * g.dpi  # a swatch as tall as the text, in pixels
-        if phase_wheel:
-            size = 9.0 * box if strip is None else 0.95 * g.bottom
-            left = g.width - 1.05 * size if strip is None else 0.02 * g.width
-            low = g.height - 1.05 * size if strip is None else 0.02 * g.bottom
-            ax = self.figure.add_axes(self._box(left, low, size, size))
-            _wheel(ax)
-            return
         ax = self.figure.add_axes(self._box(0, 0, g.width, g.height), facecolor="none")
         ax.set_xlim(0, g.width)
         ax.set_ylim(0, g.height)
         ax.set_axis_off()
+        widths = [(1.4 + 0.62 * len(text)) * box for _, text in entries]  # swatch and words
         if strip is None:  # one panel: stacked at the top right
-            spots = [(g.width - 5.2 * box, g.height - 1.2 * box - k * 1.5 * box) for k in range(2)]
+            left = g.width - max(widths) - 0.6 * box
+            spots = [(left, g.height - 1.2 * box - k * 1.5 * box) for k in range(len(entries))]
         else:  # a sheet: side by side in the strip
-            mid = 0.5 * g.bottom + 0.5 * box
-            spots = [(0.02 * g.width + k * 5.5 * box, mid) for k in range(2)]
-        for (left, y), colour, text in zip(spots, colors, ("ψ > 0", "ψ < 0"), strict=True):
+            mid, x, spots = 0.5 * g.bottom + 0.5 * box, 0.02 * g.width, []
+            for width in widths:
+                spots.append((x, mid))
+                x += width + 1.2 * box
+        for (left, y), (colour, text) in zip(spots, entries, strict=True):
             ax.add_patch(
                 Rectangle(
                     (left, y - box),
                     box,
                     box,
-                    facecolor=tuple(v / 255 for v in colour),
+                    facecolor=tuple(v / 255 for v in colour[:3]),
                     edgecolor=_INK,
                     linewidth=0.5,
                 )

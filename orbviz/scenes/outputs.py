@@ -33,48 +33,110 @@ def item_files(item: Item, out: Path) -> tuple[dict[Path, bytes], dict[str, Any]
     The thumbnail is ``out/thumbs/NAME.png``; the numbers include ``alt_text``, the figure's
     description.
     """
-    if item.members:
-        return _sheet_files(item, out)
-    return _orbital_files(item, out)
+    files, numbers = _sheet_files(item, out) if item.members else _orbital_files(item, out)
+    order = {name: k for k, name in enumerate(item.files())}  # the order of the outputs
+    ranked = sorted(files, key=lambda p: order.get(str(p.relative_to(out)), len(order)))
+    return {p: files[p] for p in ranked}, numbers
 
 
 def _wanted(item: Item, kinds: tuple[str, ...]) -> list[str]:
     return [k for k in item.outputs if k in kinds]
 
 
-def _plots(
-    item: Item,
-    states: list[State],
-    out: Path,
-    radial: tuple[list[State], list[str]] | None = None,
-) -> dict[Path, bytes]:
-    """Return the slice and radial plots asked for (``radial``: its own states and labels)."""
-    from orbviz.figures.page import encode_figure
-    from orbviz.figures.plots import describe_plot, plot
+class _Plots:
+    """The slice and radial plots an item asks for, and its thumbnail when it makes only plots."""
 
-    files = {}
-    for kind in _wanted(item, PLOT_OUTPUTS):
-        which, fmt = kind.split(".")
-        options = dataclasses.replace(item.plot, kind=which)
-        chosen, labels = radial if which == "radial" and radial else (states, None)
+    def __init__(
+        self,
+        item: Item,
+        states: list[State],
+        radial: tuple[list[State], list[str]] | None = None,
+    ) -> None:
+        self.item, self.states, self.radial = item, states, radial
+        self.kinds = _wanted(item, PLOT_OUTPUTS)
+
+    def _make(self, which: str, **size: Any) -> tuple[Any, str]:
+        from orbviz.figures.plots import describe_plot, plot
+
+        options = dataclasses.replace(self.item.plot, kind=which, **size)
+        chosen, labels = self.radial if which == "radial" and self.radial else (self.states, None)
         one: Any = chosen if len(chosen) > 1 else chosen[0]
         fig, data = plot(
-            one, options, fraction=item.physics.fraction, colors=item.figure.colors, labels=labels
+            one,
+            options,
+            fraction=self.item.physics.fraction,
+            colors=self.item.figure.colors,
+            labels=labels,
         )
-        alt = describe_plot(data, options.units)
-        files[out / item.file_of(kind)] = encode_figure(
-            fig, f".{fmt}", dpi=fig.dpi, title=options.title or "", alt_text=alt
-        )
-    return files
+        return fig, describe_plot(data, options.units)
+
+    def files(self, out: Path) -> dict[Path, bytes]:
+        """Return every plot file, encoded with its resolution, title and alt text."""
+        from orbviz.figures.page import encode_figure
+
+        files = {}
+        for kind in self.kinds:
+            which, fmt = kind.split(".")
+            fig, alt = self._make(which)
+            files[out / self.item.file_of(kind)] = encode_figure(
+                fig, f".{fmt}", dpi=fig.dpi, title=self.item.plot.title or "", alt_text=alt
+            )
+        return files
+
+    def thumbnail(self) -> tuple[bytes, str]:
+        """Return the first plot redrawn at thumbnail size, and its alt text.
+
+        The text keeps its point sizes at 150 dpi, so it reads at 320 pixels.
+        """
+        from orbviz.figures.page import encode_figure
+
+        width_mm = THUMBNAIL[0] / 150 * 25.4
+        fig, alt = self._make(self.kinds[0].split(".")[0], width=width_mm, height=None, dpi=150)
+        return encode_figure(fig, ".png", dpi=150, alt_text=alt), alt
+
+
+def _three_d(item: Item) -> bool:
+    """Tell whether the item makes anything from the surface (figure, meshes, model)."""
+    return bool(_wanted(item, FIGURE_OUTPUTS + MESH_OUTPUTS + MODEL_OUTPUTS))
 
 
 def _orbital_files(item: Item, out: Path) -> tuple[dict[Path, bytes], dict[str, Any]]:
+    state = item.physics.state(item.spec)
+    plots = _Plots(item, [state])
+    files = plots.files(out)
+    thumb = out / "thumbs" / f"{item.name}.png"
+    if _three_d(item):
+        surface, numbers = _surface_files(item, state, out)
+        files.update(surface)
+        files.update(_movies(item, state, out)[0])
+        return files, numbers
+    numbers = _level_numbers(item, state)
+    if plots.kinds:  # only plots (and perhaps a movie): the thumbnail is the first plot
+        files[thumb], numbers["alt_text"] = plots.thumbnail()
+        files.update(_movies(item, state, out)[0])
+    else:  # only a movie: its first frame
+        movie, files[thumb], numbers["alt_text"] = _movies(item, state, out)
+        files.update(movie)
+    return files, numbers
+
+
+def _level_numbers(item: Item, state: State) -> dict[str, Any]:
+    from orbviz.levels.isovalue import enclosing_isovalue
+
+    iso = enclosing_isovalue(state, fraction=item.physics.fraction)
+    return {"isovalue": iso.level, "fraction": iso.fraction}
+
+
+def _surface_files(item: Item, state: State, out: Path) -> tuple[dict[Path, bytes], dict[str, Any]]:
+    """Return the figures, meshes and models of one state's surface, and the thumbnail.
+
+    The thumbnail shows the model when the item makes one, else the figure.
+    """
     from orbviz.export import encode_bodies
     from orbviz.figures.figure import Panel, figure
     from orbviz.models.build import build_model
     from orbviz.surface.mesh import build_mesh
 
-    state = item.physics.state(item.spec)
     fraction = item.physics.fraction
     mesh = build_mesh(state, item.mesh, fraction=fraction, half_width=item.figure.extent)
     files: dict[Path, bytes] = {}
@@ -95,14 +157,13 @@ def _orbital_files(item: Item, out: Path) -> tuple[dict[Path, bytes], dict[str, 
         for kind in figures:
             files[out / item.file_of(kind)] = fig.encode(f".{kind}")
         alt = fig.alt_text
-        if model is not None and not figures:  # a model's thumbnail shows the model
+        if model is not None:  # a model's thumbnail shows the model, stand and all
             shown = dataclasses.replace(mesh, bodies=model.preview_bodies())
             fig.replace_panel(0, Panel(state, shown))
             fig.options = dataclasses.replace(fig.options, scale_bar=False)
-            alt = f"Printable model ({item.model.size_mm:g} mm) of: {alt}"
+            if not figures:
+                alt = f"Printable model ({item.model.size_mm:g} mm) of: {alt}"
         files[out / "thumbs" / f"{item.name}.png"] = fig.thumbnail(THUMBNAIL)
-    files.update(_plots(item, [state], out))
-    files.update(_movies(item, state, out))
     report = mesh.report()
     numbers = {
         "isovalue": report["isovalue"],
@@ -117,15 +178,30 @@ def _orbital_files(item: Item, out: Path) -> tuple[dict[Path, bytes], dict[str, 
     return files, numbers
 
 
-def _movies(item: Item, state: State, out: Path) -> dict[Path, bytes]:
+def _movies(item: Item, state: State, out: Path) -> tuple[dict[Path, bytes], bytes, str]:
+    """Return the movies asked for, the first frame as a thumbnail, and a description."""
     kinds = _wanted(item, ANIMATION_OUTPUTS)
     if not kinds:
-        return {}
+        return {}, b"", ""
+    import io
+
+    from PIL import Image
+
     from orbviz.figures.animation import animate
     from orbviz.figures.animation_files import encode_movie
 
     movie = animate(state, item.animation, fraction=item.physics.fraction)
-    return {out / item.file_of(kind): encode_movie(movie, f".{kind}") for kind in kinds}
+    files = {out / item.file_of(kind): encode_movie(movie, f".{kind}") for kind in kinds}
+    first = Image.fromarray(movie.images[0][..., :3], "RGB")
+    first.thumbnail(THUMBNAIL)
+    buffer = io.BytesIO()
+    first.save(buffer, format="PNG")
+    alt = (
+        f"{state.label} in motion: {len(movie.images)} frames over "
+        f"{item.animation.periods:g} period(s) of {movie.beat.femtoseconds:.4g} fs, the surface "
+        f"at one level that encloses {100 * item.physics.fraction:g}% on average"
+    )
+    return files, buffer.getvalue(), alt
 
 
 def _sheet_files(item: Item, out: Path) -> tuple[dict[Path, bytes], dict[str, Any]]:
@@ -135,20 +211,22 @@ def _sheet_files(item: Item, out: Path) -> tuple[dict[Path, bytes], dict[str, An
     physics = item.physics
     specs = [s for spec in item.members for s in set_members(spec) or [spec]]
     states = [physics.state(s) for s in specs]
+    # radial plots: a subshell's members share one radial distribution, drawn once by its name
+    firsts = [physics.state((set_members(spec) or [spec])[0]) for spec in item.members]
+    plots = _Plots(item, states, radial=(firsts, list(item.members)))
+    files = plots.files(out)
+    numbers: dict[str, Any] = {"panels": len(states), "fraction": physics.fraction}
     figures = _wanted(item, FIGURE_OUTPUTS)
+    if not figures:  # only plots: the thumbnail is the first plot
+        files[out / "thumbs" / f"{item.name}.png"], numbers["alt_text"] = plots.thumbnail()
+        return files, numbers
     looks = dataclasses.replace(item.figure, title=item.title(item.spec))
-    if not figures:
-        looks = dataclasses.replace(looks, size=THUMBNAIL, scale=1.0, width=None)
     oriented = any(oriented_set(spec) for spec in item.members)
-    files: dict[Path, bytes] = {}
     with sheet(states, looks, fraction=physics.fraction, oriented=oriented) as fig:
         for kind in figures:
             files[out / item.file_of(kind)] = fig.encode(f".{kind}")
-        alt = fig.alt_text
+        numbers["alt_text"] = fig.alt_text
         cols = fig.layout[0]
         panel = (max(64, THUMBNAIL[0] // cols), max(48, THUMBNAIL[1] // cols))
         files[out / "thumbs" / f"{item.name}.png"] = fig.thumbnail(panel, dpi=120)
-    # radial plots: a subshell's members share one radial distribution, drawn once by its name
-    firsts = [physics.state((set_members(spec) or [spec])[0]) for spec in item.members]
-    files.update(_plots(item, states, out, radial=(firsts, list(item.members))))
-    return files, {"panels": len(states), "fraction": physics.fraction, "alt_text": alt}
+    return files, numbers
