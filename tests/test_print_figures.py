@@ -72,7 +72,29 @@ def test_svg_keeps_text_as_text(sheet_files):
 
 def test_a_layout_too_small_is_refused(tmp_path, capsys):
     status = main(["render", "3d", "--layout", "2x2", "-o", str(tmp_path / "x.png")])
-    assert status == 2 and "holds 4 panels, not 5" in capsys.readouterr().err
+    assert status == 2 and "--layout: 2x2 holds 4, not 5 panels" in capsys.readouterr().err
+
+
+@pytest.mark.parametrize(
+    "args, fragment",
+    [
+        # docs/limits.md: a layout must not leave a whole row or column empty, and a printed
+        # panel is at least 25 mm wide (common practice, no source: 6-8 pt labels must fit)
+        (["3d", "--layout", "9x9"], "--layout: 9x9 leaves a whole row or column empty"),
+        (["3d", "--layout", "5x2"], "--layout: 5x2 leaves a whole row or column empty"),
+        (["3d", "--width", "60mm"], "--width: 60 mm gives 20 mm a panel across 3 column(s)"),
+        (["2pz", "--width", "20mm"], "--width: 20 mm gives 20 mm a panel"),
+    ],
+)
+def test_pages_that_cannot_hold_their_panels_are_refused(tmp_path, capsys, args, fragment):
+    status = main(["render", *args, "-o", str(tmp_path / "x.png")])
+    assert status == 2 and fragment in capsys.readouterr().err
+    assert not (tmp_path / "x.png").exists()
+
+
+def test_a_folder_given_as_the_output_is_named_as_a_folder(tmp_path, capsys):
+    status = main(["render", "2pz", "-o", str(tmp_path) + "/"])
+    assert status == 2 and "it is a folder; give a file name" in capsys.readouterr().err
 
 
 # ---------------------------------------------------------------- greyscale and colour vision

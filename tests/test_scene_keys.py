@@ -47,6 +47,10 @@ RENDER = [
     ("title", '"{label"', "render.title: "),
     ("dpi", "10", "render.dpi: expected a whole number from 72 to 2400"),
     ("layout", '"0x3"', "render.layout: expected COLSxROWS"),
+    # docs/limits.md: no empty row or column, at least 25 mm a printed panel (common practice,
+    # no source: 6-8 pt labels, the key and the scale bar need that width)
+    ("layout", '"2x1"', "render.layout: 2x1 leaves a whole row or column empty for 1 panel"),
+    ("width", '"20mm"', "render.width: 20 mm gives 20 mm a panel across 1 column(s)"),
     ("labels", '"roman"', "render.labels: expected letters, specs or none"),
     ("key", '"maybe"', "render.key: expected true or false"),
     ("title", "3", "render.title: expected text"),

@@ -73,7 +73,7 @@ def _run(argv: Sequence[str] | None) -> int:
         _quiet_stdout()
         return 0
     except OrbvizError as error:
-        print(f"orbviz: error: {error}", file=sys.stderr)
+        print(f"orbviz: error: {_as_flag(error)}", file=sys.stderr)
         return 2
     except MemoryError:
         print("orbviz: error: out of memory; use a smaller grid or image", file=sys.stderr)
@@ -90,3 +90,15 @@ def _run(argv: Sequence[str] | None) -> int:
             file=sys.stderr,
         )
         return 1
+
+
+def _as_flag(error: OrbvizError) -> str:
+    """Name an option checked after parsing by its flag, as the parser's own checks do.
+
+    ``layout`` is checked against the panel count once the specs are made: ``--layout``.
+    """
+    from orbviz.errors import OptionError
+
+    if isinstance(error, OptionError) and error.key.isidentifier():
+        return f"--{error.key.replace('_', '-')}: {error.rule}"
+    return str(error)

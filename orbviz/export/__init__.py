@@ -67,6 +67,10 @@ def check_output(path: str | os.PathLike[str], suffixes: Sequence[str] | None = 
     path = Path(path)
     allowed = list(suffixes if suffixes is not None else SUFFIXES)
     suffix = path.suffix.lower()
+    if text and (text.endswith(("/", os.sep)) or (suffix not in allowed and path.is_dir())):
+        raise OutputError(
+            f"cannot write {text!r}: it is a folder; give a file name ending in a suffix"
+        )
     if suffix not in allowed:
         known = ", ".join(sorted(allowed))
         raise OutputError(

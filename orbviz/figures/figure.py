@@ -14,7 +14,6 @@ manager), or many figures in one process grow without bound.
 
 from __future__ import annotations
 
-import math
 import os
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
@@ -28,8 +27,8 @@ from orbviz._defaults import DEFAULTS, LIMITS
 from orbviz._options import checked
 from orbviz._progress import progress
 from orbviz.errors import OptionError, ParameterError
-from orbviz.figures.camera import camera_axes, place_lights
-from orbviz.figures.options import SET_VIEW, VIEWS, FigureOptions
+from orbviz.figures.camera import camera_axes, default_view, place_lights
+from orbviz.figures.options import FigureOptions, page_layout
 from orbviz.figures.overlays import add_axis_lines, add_bodies, add_caps, add_members, add_nodes
 from orbviz.figures.page import PAGE_SUFFIXES, Page, PanelImage, geometry
 from orbviz.states.state import State
@@ -356,58 +355,11 @@ def _frame(fig: Figure, vertices: np.ndarray) -> float:
     return float(half_height)
 
 
-def _layout(count: int, options: FigureOptions) -> tuple[int, int]:
-    if options.layout is not None:
-        cols, rows = options.layout
-        if cols * rows < count:
-            raise OptionError("layout", f"{cols}x{rows} holds {cols * rows} panels, not {count}")
-        return cols, rows
-    cols = {1: 1, 2: 2, 3: 3, 4: 2, 5: 3, 6: 3, 9: 3}.get(count, 4)
-    return cols, -(-count // cols)
-
-
-def _lobe_axes(panels: Sequence[Panel]) -> list[np.ndarray]:
-    """Return the directions of the lopsided positive parts shown (a hybrid's large lobe)."""
-    axes = []
-    for panel in panels:
-        for mesh in panel.shown:
-            for body in mesh.bodies:
-                if body.name == "negative" or not len(body.vertices):
-                    continue
-                centre = body.vertices.mean(axis=0)
-                reach = float(np.abs(body.vertices).max())
-                if np.linalg.norm(centre) > 0.25 * reach:  # not centred on the nucleus
-                    axes.append(centre / np.linalg.norm(centre))
-    return axes
-
-
-def _default_view(panels: Sequence[Panel], oriented: bool) -> tuple[float, float]:
-    """Return the set view for d and f sets that differ by orientation, else iso.
-
-    Iso is turned when it looks within 30 degrees along a lobe (the demo's 2sp3[1] points at
-    (1, 1, 1), nearly at the iso camera, and showed as a disc): the view kept is the one, at
-    elevations 10 to 40 degrees, farthest from every lobe's axis.
-    """
-    atoms = [p.state.eigenstate for p in panels]
-    if oriented and all(a is not None and a.l >= 2 for a in atoms):
-        return SET_VIEW
-    axes = _lobe_axes(panels)
-
-    def clearance(view: tuple[float, float]) -> float:
-        toward = camera_axes(view)[0]
-        return min((math.degrees(math.acos(min(1.0, abs(toward @ a)))) for a in axes), default=90)
-
-    if clearance(VIEWS["iso"]) >= 30:
-        return VIEWS["iso"]
-    candidates = [(float(az), float(el)) for el in (25, 10, 40) for az in range(0, 360, 15)]
-    return max(candidates, key=clearance)
-
-
 def _compose(
     panels: list[Panel], options: FigureOptions, axis_lines: bool, oriented: bool = False
 ) -> Figure:
     """Open the render window and frame every panel at one scale."""
-    cols, rows = _layout(len(panels), options)
+    cols, rows = page_layout(len(panels), options)
     page = geometry(options, cols, rows)
     if page.width * page.height / 1e6 > LIMITS.image_megapixels:
         raise OptionError(
@@ -421,7 +373,7 @@ def _compose(
 
     plotter = pyvista.Plotter(off_screen=True, window_size=panel_pixels, lighting="none")
     fig = Figure(plotter, panels, options, (cols, rows), axis_lines=axis_lines)
-    fig.view = options.view or _default_view(panels, oriented)
+    fig.view = options.view or default_view(panels, oriented)
     try:
         vertices = np.vstack([b.vertices for p in panels for m in p.shown for b in m.bodies])
         if axis_lines:  # frame the axes and their labels too

@@ -21,7 +21,9 @@ __all__ = [
     "FigureOptions",
     "PlotOptions",
     "background_colour",
+    "MIN_PANEL_MM",
     "grid_layout",
+    "page_layout",
     "pixel_size",
     "print_length",
     "view_angles",
@@ -456,3 +458,38 @@ class AnimationOptions:
                 )
             ]
         return []
+
+
+MIN_PANEL_MM = 25.0  # narrowest printed panel whose 6-8 pt labels, key and scale bar fit
+
+
+def page_layout(count: int, options: FigureOptions) -> tuple[int, int]:
+    """Return the (columns, rows) of a page of ``count`` panels.
+
+    The options' layout, checked, or one chosen for the count.
+
+    Raises
+    ------
+    OptionError
+        For a layout that cannot hold the panels or leaves a row or column empty, or a printed
+        width that gives a panel less than MIN_PANEL_MM.
+    """
+    if options.layout is not None:
+        cols, rows = options.layout
+        panels = f"{count} panel{'s' * (count != 1)}"
+        if cols * rows < count:
+            raise OptionError("layout", f"{cols}x{rows} holds {cols * rows}, not {panels}")
+        if (cols - 1) * rows >= count or cols * (rows - 1) >= count:
+            raise OptionError(
+                "layout", f"{cols}x{rows} leaves a whole row or column empty for {panels}"
+            )
+    else:
+        cols = {1: 1, 2: 2, 3: 3, 4: 2, 5: 3, 6: 3, 9: 3}.get(count, 4)
+        rows = -(-count // cols)
+    if options.width is not None and options.width / cols < MIN_PANEL_MM:
+        raise OptionError(
+            "width",
+            f"{options.width:.0f} mm gives {options.width / cols:.0f} mm a panel across {cols} "
+            f"column(s); at least {MIN_PANEL_MM:g} mm a panel, so that its 6-8 pt labels fit",
+        )
+    return cols, rows

@@ -12,6 +12,7 @@ from __future__ import annotations
 import hashlib
 import re
 import tomllib
+from collections.abc import Sequence
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
@@ -19,10 +20,11 @@ from typing import Any
 from orbviz._defaults import LIMITS
 from orbviz._options import build, external_keys
 from orbviz.errors import OptionError, OrbvizError, SceneError
-from orbviz.figures.options import AnimationOptions, FigureOptions, PlotOptions
+from orbviz.figures.options import AnimationOptions, FigureOptions, PlotOptions, page_layout
 from orbviz.models.options import ModelOptions
 from orbviz.scenes.items import (
     ANIMATION_OUTPUTS,
+    FIGURE_OUTPUTS,
     OUTPUTS,
     SHEET_OUTPUTS,
     Item,
@@ -182,10 +184,6 @@ def _item(
         where,
         "animate.",
     )
-    try:
-        check_title(figure.title)
-    except ValueError as error:
-        raise where.error("render.title", str(error)) from None
     sheet = isinstance(spec, list)
     allowed = SHEET_OUTPUTS if sheet else OUTPUTS
     default = ["png"] if sheet else ["png", "glb"]
@@ -199,6 +197,7 @@ def _item(
             sheet=sheet,
             animated=bool(set(outputs) & set(ANIMATION_OUTPUTS)),
         )
+    _check_page(figure, members, outputs, where)
     text = " ".join(members)
     if name is None:
         name = slug(text, physics.Z)
@@ -225,6 +224,22 @@ def _item(
     if len(set(map(str.lower, files))) < len(files):
         raise where.error("outputs", f"two outputs would share a file name in {files}")
     return item
+
+
+def _check_page(
+    figure: FigureOptions, members: list[str], outputs: Sequence[str], where: _Where
+) -> None:
+    """Check the title's placeholders and that the page holds its panels at the printed size."""
+    try:
+        check_title(figure.title)
+    except ValueError as error:
+        raise where.error("render.title", str(error)) from None
+    if set(outputs) & set(FIGURE_OUTPUTS):
+        panels = 1 if figure.overlay else sum(len(set_members(m) or [m]) for m in members)
+        try:
+            page_layout(panels, figure)
+        except OptionError as error:
+            raise where.error(f"render.{error.key}", error.rule) from None
 
 
 def _members(specs: list[str], atom: Any, where: _Where) -> list[str]:
