@@ -119,9 +119,11 @@ def render(args: argparse.Namespace) -> int:
     from orbviz.figures.page import PAGE_SUFFIXES
 
     physics, options = _physics(args), options_from(args, FigureOptions)
-    (target,) = check_output(args.output, list(PAGE_SUFFIXES))
+    (target,) = check_output(args.output, [*PAGE_SUFFIXES, ".html"])
     _keep(args, [target])
     states, oriented = _states(args.spec, physics)
+    if target.suffix.lower() == ".html":
+        return _page(args, states, options, physics, target)
     if len(states) == 1 and not oriented:
         made = figure(states[0], options, fraction=physics.fraction)
     else:
@@ -137,6 +139,28 @@ def render(args: argparse.Namespace) -> int:
     if alt is not None:
         print(alt)
     for text in dict.fromkeys(notes):
+        note(text)
+    return 0
+
+
+def _page(
+    args: argparse.Namespace, states: list[Any], options: Any, physics: Physics, target: Path
+) -> int:
+    """Write an interactive page of the states: one offline HTML file."""
+    from orbviz.export import write_files
+    from orbviz.pages.build import page_data, page_html
+    from orbviz.pages.options import PageOptions
+
+    page = options_from(args, PageOptions)
+    data = page_data(states, options, page, fraction=physics.fraction)
+    body = page_html(data)
+    write_files({target: body})
+    levels = ", ".join(f"{100 * f:g}%" for f in data["levels"])
+    what = states[0].label if len(states) == 1 else f"{len(states)} orbitals"
+    print(f"wrote {target} ({len(body) / 1e6:.2f} MB): {what}, levels {levels}")
+    if args.alt_text:
+        print(" ".join(p["alt"] for p in data["panels"]))
+    for text in dict.fromkeys(n for p in data["panels"] for n in p["notes"]):
         note(text)
     return 0
 

@@ -97,10 +97,16 @@ def _mesh(parser: argparse.ArgumentParser) -> None:
 
 def _render(parser: argparse.ArgumentParser) -> None:
     from orbviz.figures.options import FigureOptions
+    from orbviz.pages.options import PageOptions
 
     _spec(parser, many=True)
-    _output(parser, "output: .png, .tiff, .pdf or .svg (labels as vector text in PDF and SVG)")
+    _output(
+        parser,
+        "output: .png, .tiff, .pdf or .svg (labels as vector text in PDF and SVG), or .html "
+        "(an interactive page that works offline)",
+    )
     add_options(parser, FigureOptions)
+    add_options(parser, PageOptions)
     _alt_text(parser)
 
 

@@ -17,12 +17,21 @@ import numpy as np
 
 from orbviz._defaults import BOHR_IN_ANGSTROM
 from orbviz.states.state import NodalSurfaces, State
+from orbviz.surface.colors import ColorPair
 from orbviz.surface.contour import Body
 
 if TYPE_CHECKING:
     from orbviz.figures.figure import Figure, Panel
 
-__all__ = ["Lobe", "describe_figure", "describe_panel", "describe_panels", "lobes", "nodal_text"]
+__all__ = [
+    "Lobe",
+    "colour_names",
+    "describe_figure",
+    "describe_panel",
+    "describe_panels",
+    "lobes",
+    "nodal_text",
+]
 
 _AXES = {
     "+x": (1, 0, 0),
@@ -256,17 +265,18 @@ def describe_panel(panel: Panel, *, units: str, colors: Sequence[str]) -> str:
     return ". ".join(sentences) + "."
 
 
-def _colour_names(fig: Figure) -> list[str]:
+def colour_names(pair: ColorPair) -> list[str]:
+    """Return the phase colours in words: the default pair by name, others as #RRGGBB."""
     from orbviz.surface.colors import DEFAULT_PAIR
 
-    if fig.options.colors == DEFAULT_PAIR:
+    if pair == DEFAULT_PAIR:
         return ["dark blue", "yellow"]
-    return ["#{:02X}{:02X}{:02X}".format(*c[:3]) for c in fig.options.colors]
+    return ["#{:02X}{:02X}{:02X}".format(*c[:3]) for c in pair]
 
 
 def describe_panels(fig: Figure) -> str:
     """Return every panel of the figure in words (without the title)."""
-    colors, units = _colour_names(fig), fig.options.units
+    colors, units = colour_names(fig.options.colors), fig.options.units
     texts = []
     for panel in fig.panels:
         if panel.members:

@@ -1,0 +1,75 @@
+"""The options of an interactive page: the levels it switches among, its arrangement, weight."""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import Any
+
+from orbviz._defaults import LIMITS
+from orbviz._options import choice, integer, option
+
+__all__ = ["PageOptions", "fractions"]
+
+MAX_LEVELS = 5  # each level is a surface per panel: five keep a page's weight in bounds
+
+
+def fractions(raw: Any) -> tuple[float, ...]:
+    """Read enclosed fractions, ``0.5,0.9,0.99`` or a sequence: 1 to 5, each in range, sorted."""
+    low, high = LIMITS.fraction_min, LIMITS.fraction_max
+    rule = f"expected 1 to {MAX_LEVELS} fractions from {low:g} to {high:g}, like 0.5,0.9,0.99"
+    parts: list[Any] = (
+        raw.split(",")
+        if isinstance(raw, str)
+        else list(raw)
+        if isinstance(raw, (list, tuple))
+        else []
+    )
+    try:
+        if any(isinstance(v, bool) for v in parts):
+            raise ValueError
+        values = sorted({float(v) for v in parts})
+    except (TypeError, ValueError):
+        raise ValueError(f"{rule}, got {raw!r}") from None
+    if not (1 <= len(values) <= MAX_LEVELS) or not all(
+        math.isfinite(v) and low <= v <= high for v in values
+    ):
+        raise ValueError(f"{rule}, got {raw!r}")
+    return tuple(values)
+
+
+@dataclass(frozen=True)
+class PageOptions:
+    """An interactive page's own options (how it looks comes from the figure options).
+
+    Attributes
+    ----------
+    levels : tuple of float, default: (0.5, 0.9, 0.99)
+        Enclosed fractions the page switches among; the figure's fraction is added and shown
+        first.
+    faces : int, default: 20000
+        Faces of each surface on the page (decimated): the page's weight.
+    arrangement : {"grid", "chooser"} or None, default: None
+        Several orbitals side by side sharing the camera, or one at a time with a chooser;
+        None: a grid of up to four, a chooser beyond.
+    """
+
+    levels: tuple[float, ...] = option(
+        (0.5, 0.9, 0.99),
+        f"enclosed fractions a page switches among, 1 to {MAX_LEVELS}, like 0.5,0.9,0.99",
+        fractions,
+        metavar="F,F,...",
+    )
+    faces: int = option(
+        20000,
+        "faces of each surface on a page (its weight), 1000 to 200000",
+        integer(1000, 200000),
+        flag="--page-faces",
+        metavar="N",
+    )
+    arrangement: str | None = option(
+        None,
+        "a page of several orbitals: side by side (grid) or one at a time (chooser)",
+        choice("grid", "chooser", allow_none=True),
+        metavar="{grid,chooser}",
+    )
