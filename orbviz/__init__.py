@@ -12,6 +12,7 @@ The package is the pipeline, one subpackage per stage, data flowing one way:
 - ``orbviz.export``: one writer per file format, all-or-nothing writes, length units
 - ``orbviz.figures``: off-screen 3D figures, 2D plots and animations (VTK and matplotlib)
 - ``orbviz.models``: printable solids in millimetres and their printability checks
+- ``orbviz.pages``: self-contained interactive pages (one offline HTML file) and notebook display
 - ``orbviz.scenes``: scene files, the batch runner, its manifest and the contact sheet
 - ``orbviz.cli``: the command line
 
@@ -34,6 +35,8 @@ _LAZY = {
     "plot": "orbviz.api",
     "model": "orbviz.api",
     "animate": "orbviz.api",
+    "show": "orbviz.pages.notebook",
+    "Shown": "orbviz.pages.notebook",
     "Orbital": "orbviz.states.orbital",
     "Bond": "orbviz.states.bond",
     "State": "orbviz.states.state",

@@ -104,3 +104,45 @@ def as_trimesh(body):
     import trimesh
 
     return trimesh.Trimesh(vertices=body.vertices, faces=body.faces, process=False)
+
+
+def chromium_path() -> str:
+    """Debian's chromium, or skip (fail in CI, where .ci/run installs it)."""
+    import os
+    import shutil
+
+    import pytest
+
+    exe = shutil.which("chromium") or shutil.which("chromium-browser")
+    if exe is None:
+        if os.environ.get("CI"):
+            pytest.fail("chromium is not installed: .ci/run must install it")
+        pytest.skip("chromium not installed (apt-get install chromium)")
+    return exe
+
+
+def khronos_validate(path) -> dict:
+    """Run the Khronos glTF validator (npm gltf-validator) on a file; return its report."""
+    import json
+    import os
+    import shutil
+    import subprocess
+    from pathlib import Path
+
+    import pytest
+
+    modules = gltf_validator_dir()
+    if modules is None:
+        if os.environ.get("CI"):
+            pytest.fail("gltf-validator is not installed: .ci/run must install it")
+        pytest.skip("gltf-validator not installed (run .ci/run, or npm install it to .ci/node)")
+    node = shutil.which("node")
+    script = Path(__file__).parent / "tools" / "gltf_validate.cjs"
+    out = subprocess.run(
+        [node, str(script), str(path)],
+        capture_output=True,
+        text=True,
+        env={**os.environ, "NODE_PATH": str(modules)},
+        check=True,
+    )
+    return json.loads(out.stdout)

@@ -46,6 +46,8 @@ def _argv(command: str, kind: str, out) -> list[str]:
         return ["plot", spec, *physics, "--kind", command.split("-")[1], "-o", str(out / "p.png")]
     if command == "render":
         return ["render", spec, *physics, *SMALL, "--size", "160x120", "-o", str(out / "r.png")]
+    if command == "page":
+        return ["render", spec, *physics, *SMALL, "--levels", "0.5", "-o", str(out / "p.html")]
     if command == "mesh":
         return ["mesh", spec, *physics, *SMALL, "-o", str(out / "m.glb")]
     if command == "model":
@@ -54,7 +56,7 @@ def _argv(command: str, kind: str, out) -> list[str]:
     return ["animate", spec, *physics, *frames, "-o", str(out / "a.gif")]
 
 
-COMMANDS = ["info", "plot-slice", "plot-radial", "render", "mesh", "model", "animate"]
+COMMANDS = ["info", "plot-slice", "plot-radial", "render", "page", "mesh", "model", "animate"]
 
 
 @pytest.mark.slow

@@ -5,8 +5,6 @@ from __future__ import annotations
 import concurrent.futures as cf
 import dataclasses
 import json
-import os
-import shutil
 import subprocess
 from pathlib import Path
 
@@ -18,6 +16,7 @@ from orbviz.scenes.items import Item
 from orbviz.scenes.load import load_scene
 from orbviz.scenes.load import parse_scene as _parse
 from orbviz.scenes.runner import run_scene
+from tests.conftest import chromium_path
 
 
 def parse_scene(text, source):
@@ -185,15 +184,6 @@ def test_custom_executor_is_used(tmp_path):
     assert Counting.submitted == 2 and all(e["status"] == "done" for e in manifest["items"])
 
 
-def _chromium():
-    exe = shutil.which("chromium") or shutil.which("chromium-browser")
-    if exe is None:
-        if os.environ.get("CI"):
-            pytest.fail("chromium is not installed: .ci/run must install it")
-        pytest.skip("chromium not installed (apt-get install chromium)")
-    return exe
-
-
 CHROMIUM_FLAGS = [
     "--headless",
     "--no-sandbox",
@@ -208,7 +198,7 @@ CHROMIUM_FLAGS = [
 
 @pytest.mark.slow
 def test_contact_sheet_in_a_real_browser(tmp_path):
-    exe = _chromium()
+    exe = chromium_path()
     out = tmp_path / "set"
     manifest = run_scene(parse_scene(SCENE, "test.toml"), out, jobs=2, progress=False)
     page = (out / "index.html").as_uri()

@@ -125,6 +125,18 @@ class Figure:
         labels = ", ".join(p.state.label for p in self.panels)
         return f"Figure({labels}, {w}x{h}, layout {self.layout[0]}x{self.layout[1]})"
 
+    def _repr_html_(self) -> str:
+        """Show the figure's orbitals in a notebook as an interactive page."""
+        from orbviz.pages.notebook import show
+
+        return show(
+            self, **{k: getattr(self.options, k) for k in ("grid", "units", "colors")}
+        )._repr_html_()
+
+    def _repr_png_(self) -> bytes:
+        """Show the figure in a notebook, as its PNG."""
+        return self.png()
+
     def __enter__(self) -> Figure:
         return self
 

@@ -106,6 +106,19 @@ class Bond:
         return f"Bond({self.spec!r}, R={self.R:g} bohr, S={self.S:.6f})"
 
     # ----------------------------------------------------------------- what it is
+
+    def _repr_html_(self) -> str:
+        """Show the state in a notebook as an interactive page (see :func:`orbviz.show`)."""
+        from orbviz.pages.notebook import show
+
+        return show(self)._repr_html_()
+
+    def _repr_png_(self) -> bytes:
+        """Show the state in a notebook as a still figure."""
+        from orbviz.pages.notebook import show
+
+        return show(self)._repr_png_()
+
     @property
     def norm(self) -> float:
         """N = 1 / sqrt(2 (1 + sign S)) (both orbitals are normalised)."""

@@ -135,6 +135,19 @@ class Orbital:
         return f"Orbital({self.spec!r}, Z={self.Z:g}, terms={len(self.basis)}{extra})"
 
     # ----------------------------------------------------------------- construction
+
+    def _repr_html_(self) -> str:
+        """Show the state in a notebook as an interactive page (see :func:`orbviz.show`)."""
+        from orbviz.pages.notebook import show
+
+        return show(self)._repr_html_()
+
+    def _repr_png_(self) -> bytes:
+        """Show the state in a notebook as a still figure."""
+        from orbviz.pages.notebook import show
+
+        return show(self)._repr_png_()
+
     @classmethod
     def from_spec(
         cls,

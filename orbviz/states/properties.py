@@ -124,9 +124,18 @@ def _polar_roots(l: int, m: int) -> list[float]:
     mm = abs(m)
     polar = np.linspace(1e-6, math.pi - 1e-6, 20001)
     az0 = 0.0 if m >= 0 else math.pi / (2 * max(mm, 1))
-    values = real_harmonic(l, mm if m >= 0 else m, polar, np.full_like(polar, az0))
+    mk = mm if m >= 0 else m
+    values = real_harmonic(l, mk, polar, np.full_like(polar, az0))
     flips = np.flatnonzero(np.sign(values[1:]) != np.sign(values[:-1]))
-    return [float(0.5 * (polar[i] + polar[i + 1])) for i in flips]
+    if not len(flips):
+        return []
+    from scipy.optimize import brentq
+
+    def at(t: float) -> float:
+        return float(real_harmonic(l, mk, np.array([t]), np.array([az0]))[0])
+
+    # each sign change brackets one simple root: refine it to machine precision
+    return [float(brentq(at, polar[i], polar[i + 1], xtol=1e-14)) for i in flips]
 
 
 def orbital_nodes(orbital: Orbital) -> NodalSurfaces:

@@ -52,6 +52,18 @@ class OrbitalMesh:
             f"{self.isovalue.level:.4g} bohr^-3, grid {self.grid.points}: {bodies})"
         )
 
+    def _repr_html_(self) -> str:
+        """Show the mesh's state at its fraction in a notebook as an interactive page."""
+        from orbviz.pages.notebook import show
+
+        return show(self)._repr_html_()
+
+    def _repr_png_(self) -> bytes:
+        """Show the mesh's state at its fraction in a notebook as a still figure."""
+        from orbviz.pages.notebook import show
+
+        return show(self)._repr_png_()
+
     @property
     def state(self) -> State:
         """The state the surface belongs to."""
