@@ -89,18 +89,27 @@ MODEL = [
     ("cut", '"slice"', "model.cut: expected half, quarter or none"),
     ("split", "true", "model.split: unknown key"),
 ]
+PAGE = [
+    ("levels", "[0.5, 2]", "page.levels: expected 1 to 5 fractions from 0.01 to 0.999"),
+    ("levels", '"many"', "page.levels: expected 1 to 5 fractions"),
+    ("faces", "10", "page.faces: expected a whole number from 1000 to 200000"),
+    ("arrangement", '"pile"', "page.arrangement: expected grid, chooser or none"),
+    ("size", "3", "page.size: unknown key"),
+]
 
 
 def test_every_key_of_every_table_is_listed_here():
     from orbviz._options import external_keys
     from orbviz.figures.options import AnimationOptions, FigureOptions, PlotOptions
     from orbviz.models.options import ModelOptions
+    from orbviz.pages.options import PageOptions
 
     listed = {
         "render": {k for k, _, _ in RENDER},
         "plot": {k for k, _, _ in PLOT},
         "animate": {k for k, _, _ in ANIMATE},
         "model": {k for k, _, _ in MODEL},
+        "page": {k for k, _, _ in PAGE},
     }
     shared = {"grid", "colors"}  # checked as common keys
     for table, cls in [
@@ -108,6 +117,7 @@ def test_every_key_of_every_table_is_listed_here():
         ("plot", PlotOptions),
         ("animate", AnimationOptions),
         ("model", ModelOptions),
+        ("page", PageOptions),
     ]:
         keys = set(external_keys(cls).values()) - shared - {"kind", "split"}
         if table == "animate":
@@ -149,6 +159,19 @@ def test_plot_keys(tmp_path, capsys, key, value, fragment):
     text = f'[[orbital]]\nspec = "2pz"\noutputs = ["slice.png"]\nplot = {{ {key} = {value} }}\n'
     err = _run(tmp_path, capsys, text)
     assert f"lab.toml: orbital 1 ('2pz'): {fragment}" in err
+
+
+@pytest.mark.parametrize(("key", "value", "fragment"), PAGE)
+def test_page_keys(tmp_path, capsys, key, value, fragment):
+    text = f'[[orbital]]\nspec = "2pz"\noutputs = ["html"]\npage = {{ {key} = {value} }}\n'
+    err = _run(tmp_path, capsys, text)
+    assert f"lab.toml: orbital 1 ('2pz'): {fragment}" in err
+
+
+def test_an_item_may_not_take_a_file_the_batch_keeps(tmp_path, capsys):
+    text = '[[orbital]]\nspec = "2pz"\nname = "Index"\noutputs = ["html"]\n'
+    err = _run(tmp_path, capsys, text)
+    assert "writes 'Index.html', which the batch keeps for its contact sheet" in err
 
 
 @pytest.mark.parametrize(("key", "value", "fragment"), ANIMATE)

@@ -155,3 +155,77 @@ def test_alt_text_reaches_the_manifest_and_the_contact_sheet(batch):
     assert "(e) 3dz2" in entries["d-set"]["alt_text"]
     page = (out / "index.html").read_text()
     assert 'alt="3dz2, 90%. 3dz2 (real' in page
+
+
+PAGES = """
+title = "Harlowmere Study Circle: pages"
+[defaults]
+grid = 32
+outputs = ["html"]
+page = { levels = [0.5, 0.9], faces = 2000 }
+
+[[orbital]]
+spec = "2pz"
+
+[[orbital]]
+spec = "3,2,1"
+
+[[sheet]]
+specs = ["2p"]
+name = "p-set"
+outputs = ["png", "html"]
+
+[[orbital]]
+spec = "1s"
+page = { levels = [0.9] }
+"""
+
+
+def test_items_make_pages_that_the_contact_sheet_and_the_scene_page_link(tmp_path, capsys):
+    import re
+    from html.parser import HTMLParser
+
+    scene = tmp_path / "pages.toml"
+    scene.write_text(PAGES)
+    out = tmp_path / "out"
+    assert main(["batch", str(scene), "-o", str(out), "--no-progress"]) == 0
+    err = capsys.readouterr().err
+    assert "1s offer other levels than the other pages: left out of" in err
+
+    def data(name):
+        text = (out / name).read_text(encoding="utf-8")
+        found = re.search(r'id="orbviz-data">(.*?)</script>', text, re.S)
+        return json.loads(found.group(1))
+
+    assert [p["label"] for p in data("p-set.html")["panels"]] == ["2px", "2py", "2pz"]
+
+    class Links(HTMLParser):  # the standard library's parser as the independent reader
+        def __init__(self):
+            super().__init__()
+            self.pictures, self.href = {}, None
+
+        def handle_starttag(self, tag, attrs):
+            attrs = dict(attrs)
+            if tag == "a":
+                self.href = attrs.get("href")
+            elif tag == "img":
+                self.pictures[attrs["src"]] = self.href
+
+        def handle_endtag(self, tag):
+            if tag == "a":
+                self.href = None
+
+    links = Links()
+    links.feed((out / "index.html").read_text(encoding="utf-8"))
+    assert links.pictures == {
+        "thumbs/2pz.png": "2pz.html",
+        "thumbs/3_2_1.png": "3_2_1.html",
+        "thumbs/p-set.png": "p-set.html",
+        "thumbs/1s.png": "1s.html",
+    }
+    assert 'href="orbitals.html"' in (out / "index.html").read_text(encoding="utf-8")
+    whole = data("orbitals.html")
+    assert whole["arrangement"] == "chooser" and whole["levels"] == [0.5, 0.9]
+    labels = [p["label"] for p in whole["panels"]]
+    assert labels == ["2pz", "3d(m=+1)", "p-set: 2px", "p-set: 2py", "p-set: 2pz"]
+    assert whole["wheel"] is not None  # 3,2,1 is complex: the page keys its phase wheel

@@ -12,6 +12,7 @@ from typing import Any
 from orbviz import __version__
 from orbviz.figures.options import AnimationOptions, FigureOptions, PlotOptions
 from orbviz.models.options import ModelOptions
+from orbviz.pages.options import PageOptions
 from orbviz.states.physics import Physics
 from orbviz.surface.options import MeshOptions
 
@@ -21,6 +22,7 @@ __all__ = [
     "MESH_OUTPUTS",
     "MODEL_OUTPUTS",
     "OUTPUTS",
+    "PAGE_OUTPUTS",
     "PLOT_OUTPUTS",
     "SHEET_OUTPUTS",
     "TITLE_FIELDS",
@@ -34,8 +36,17 @@ PLOT_OUTPUTS = tuple(f"{kind}.{fmt}" for kind in ("slice", "radial") for fmt in 
 ANIMATION_OUTPUTS = ("gif", "mp4")
 MESH_OUTPUTS = ("glb", "gltf", "obj", "stl", "ply", "3mf")
 MODEL_OUTPUTS = ("model.stl", "model.3mf")
-OUTPUTS = (*FIGURE_OUTPUTS, *MESH_OUTPUTS, *MODEL_OUTPUTS, *PLOT_OUTPUTS, *ANIMATION_OUTPUTS)
-SHEET_OUTPUTS = (*FIGURE_OUTPUTS, *PLOT_OUTPUTS)  # what a [[sheet]] of several orbitals makes
+PAGE_OUTPUTS = ("html",)  # the interactive page
+OUTPUTS = (
+    *FIGURE_OUTPUTS,
+    *MESH_OUTPUTS,
+    *MODEL_OUTPUTS,
+    *PLOT_OUTPUTS,
+    *ANIMATION_OUTPUTS,
+    *PAGE_OUTPUTS,
+)
+# what a [[sheet]] of several orbitals makes
+SHEET_OUTPUTS = (*FIGURE_OUTPUTS, *PLOT_OUTPUTS, *PAGE_OUTPUTS)
 _COMPANIONS = {"obj": ["mtl"], "gltf": ["bin"]}
 
 
@@ -95,6 +106,8 @@ class Item:
         The 2D plots' options (the ``plot`` table); the output names the kind.
     animation : AnimationOptions
         The animation's options (the ``animate`` table).
+    page : PageOptions
+        The interactive page's options (the ``page`` table).
     members : tuple of str
         A ``[[sheet]]``'s specs, in panel order (sets such as ``3d`` allowed); empty for one
         orbital. ``spec`` then joins them with spaces.
@@ -111,6 +124,7 @@ class Item:
     plot: PlotOptions = field(default_factory=PlotOptions)
     animation: AnimationOptions = field(default_factory=AnimationOptions)
     members: tuple[str, ...] = ()
+    page: PageOptions = field(default_factory=PageOptions)
 
     def title(self, label: str) -> str | None:
         """Return the title with its placeholders filled in (None: no title is drawn)."""
@@ -168,6 +182,9 @@ class Item:
             else None,
             "animation": dataclasses.asdict(self.animation)
             if any(o in ANIMATION_OUTPUTS for o in self.outputs)
+            else None,
+            "page": dataclasses.asdict(self.page)
+            if any(o in PAGE_OUTPUTS for o in self.outputs)
             else None,
             "members": list(self.members),
             "inputs": [list(i) for i in self.inputs],

@@ -22,6 +22,7 @@ from orbviz._options import build, external_keys
 from orbviz.errors import OptionError, OrbvizError, SceneError
 from orbviz.figures.options import AnimationOptions, FigureOptions, PlotOptions, page_layout
 from orbviz.models.options import ModelOptions
+from orbviz.pages.options import PageOptions
 from orbviz.scenes.items import (
     ANIMATION_OUTPUTS,
     FIGURE_OUTPUTS,
@@ -51,9 +52,16 @@ _RENDER = {v: k for k, v in external_keys(FigureOptions).items() if v not in _SH
 _MODEL = {v: k for k, v in external_keys(ModelOptions).items() if v not in _SHARED and v != "split"}
 _PLOT = {v: k for k, v in external_keys(PlotOptions).items() if v != "kind"}  # the output names it
 _ANIMATE = {v: k for k, v in external_keys(AnimationOptions).items() if v != "colors"}
-_TABLES = {"render": _RENDER, "model": _MODEL, "plot": _PLOT, "animate": _ANIMATE}
+_PAGE = {v: k for k, v in external_keys(PageOptions).items()}
+_TABLES = {"render": _RENDER, "model": _MODEL, "plot": _PLOT, "animate": _ANIMATE, "page": _PAGE}
 _COMMON = set(_PHYSICS) | _SHARED | {"outputs", "atom"}
 _SHEET_MAX = 24  # panels of one sheet
+# files of the output folder that belong to the batch itself
+_RESERVED = {
+    "index.html": "its contact sheet",
+    "orbitals.html": "the page of every item's page",
+    "manifest.json": "its manifest",
+}
 
 
 @dataclass(frozen=True)
@@ -159,31 +167,7 @@ def _item(
         Physics, {k: values[k] for k in _PHYSICS if k in values}, _PHYSICS, where, ""
     )
     physics, inputs = _table(physics, base, where, anywhere)
-    shared = {k: values[k] for k in _SHARED if k in values}
-    _options(MeshOptions, shared, {"grid": "grid", "colors": "colors"}, where, "")
-    figure = _options(
-        FigureOptions,
-        {**values["render"], **shared},
-        {**_RENDER, "grid": "grid", "colors": "colors"},
-        where,
-        "render.",
-    )
-    model = _options(
-        ModelOptions,
-        {**values["model"], **shared},
-        {**_MODEL, "grid": "grid", "colors": "colors"},
-        where,
-        "model.",
-    )
-    plot = _options(PlotOptions, values["plot"], _PLOT, where, "plot.")
-    colors = {"colors": shared["colors"]} if "colors" in shared else {}
-    animation = _options(
-        AnimationOptions,
-        {**values["animate"], **colors},
-        {**_ANIMATE, "colors": "colors"},
-        where,
-        "animate.",
-    )
+    jobs = _jobs(values, where)
     sheet = isinstance(spec, list)
     allowed = SHEET_OUTPUTS if sheet else OUTPUTS
     default = ["png"] if sheet else ["png", "glb"]
@@ -197,7 +181,7 @@ def _item(
             sheet=sheet,
             animated=bool(set(outputs) & set(ANIMATION_OUTPUTS)),
         )
-    _check_page(figure, members, outputs, where)
+    _check_page(jobs["figure"], members, outputs, where)
     text = " ".join(members)
     if name is None:
         name = slug(text, physics.Z)
@@ -212,18 +196,40 @@ def _item(
         text,
         physics,
         outputs,
-        figure,
-        model,
-        inputs,
-        str(where),
-        plot=plot,
-        animation=animation,
+        inputs=inputs,
+        where=str(where),
         members=tuple(members) if sheet else (),
+        **jobs,
     )
     files = item.files()
     if len(set(map(str.lower, files))) < len(files):
         raise where.error("outputs", f"two outputs would share a file name in {files}")
     return item
+
+
+def _jobs(values: dict[str, Any], where: _Where) -> dict[str, Any]:
+    """Return the item's job options by Item field: figure, model, plot, animation, page."""
+    shared = {k: values[k] for k in _SHARED if k in values}
+    _options(MeshOptions, shared, {"grid": "grid", "colors": "colors"}, where, "")
+    both = {"grid": "grid", "colors": "colors"}
+    colors = {"colors": shared["colors"]} if "colors" in shared else {}
+    return {
+        "figure": _options(
+            FigureOptions, {**values["render"], **shared}, {**_RENDER, **both}, where, "render."
+        ),
+        "model": _options(
+            ModelOptions, {**values["model"], **shared}, {**_MODEL, **both}, where, "model."
+        ),
+        "plot": _options(PlotOptions, values["plot"], _PLOT, where, "plot."),
+        "animation": _options(
+            AnimationOptions,
+            {**values["animate"], **colors},
+            {**_ANIMATE, "colors": "colors"},
+            where,
+            "animate.",
+        ),
+        "page": _options(PageOptions, values["page"], _PAGE, where, "page."),
+    }
 
 
 def _check_page(
@@ -360,6 +366,11 @@ def _claim_names(owners: dict[str, Item], item: Item, source: str) -> None:
     names claimed so far to their items.
     """
     for name in item.files():
+        if name.lower() in _RESERVED:
+            raise SceneError(
+                f"{item.where} writes {name!r}, which the batch keeps for "
+                f"{_RESERVED[name.lower()]}; give the item a different 'name'"
+            )
         other = owners.setdefault(name.lower(), item)
         if other is not item:
             first = other.where.removeprefix(f"{source}: ")

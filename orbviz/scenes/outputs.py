@@ -17,6 +17,7 @@ from orbviz.scenes.items import (
     FIGURE_OUTPUTS,
     MESH_OUTPUTS,
     MODEL_OUTPUTS,
+    PAGE_OUTPUTS,
     PLOT_OUTPUTS,
     Item,
 )
@@ -97,7 +98,18 @@ class _Plots:
 
 def _three_d(item: Item) -> bool:
     """Tell whether the item makes anything from the surface (figure, meshes, model)."""
-    return bool(_wanted(item, FIGURE_OUTPUTS + MESH_OUTPUTS + MODEL_OUTPUTS))
+    return bool(_wanted(item, FIGURE_OUTPUTS + MESH_OUTPUTS + MODEL_OUTPUTS + PAGE_OUTPUTS))
+
+
+def _page(item: Item, states: list[State], title: str | None, out: Path) -> dict[Path, bytes]:
+    """Return the item's interactive page, if it asks for one."""
+    if not _wanted(item, PAGE_OUTPUTS):
+        return {}
+    from orbviz.pages.build import page_data, page_html
+
+    fraction = item.physics.fraction
+    data = page_data(states, item.figure, item.page, fraction=fraction, title=title or item.name)
+    return {out / item.file_of("html"): page_html(data)}
 
 
 def _orbital_files(item: Item, out: Path) -> tuple[dict[Path, bytes], dict[str, Any]]:
@@ -151,6 +163,7 @@ def _surface_files(item: Item, state: State, out: Path) -> tuple[dict[Path, byte
             files.update(model.files(out / item.file_of(kind)))
     figures = _wanted(item, FIGURE_OUTPUTS)
     looks = dataclasses.replace(item.figure, title=item.title(state.label))
+    files.update(_page(item, [state], looks.title, out))
     if not figures:
         looks = dataclasses.replace(looks, size=THUMBNAIL, scale=1.0, width=None)
     with figure(state, looks, fraction=fraction, mesh=mesh) as fig:
@@ -217,10 +230,11 @@ def _sheet_files(item: Item, out: Path) -> tuple[dict[Path, bytes], dict[str, An
     files = plots.files(out)
     numbers: dict[str, Any] = {"panels": len(states), "fraction": physics.fraction}
     figures = _wanted(item, FIGURE_OUTPUTS)
-    if not figures:  # only plots: the thumbnail is the first plot
+    looks = dataclasses.replace(item.figure, title=item.title(item.spec))
+    files.update(_page(item, states, looks.title, out))
+    if not figures and plots.kinds:  # plots and no figure: the thumbnail is the first plot
         files[out / "thumbs" / f"{item.name}.png"], numbers["alt_text"] = plots.thumbnail()
         return files, numbers
-    looks = dataclasses.replace(item.figure, title=item.title(item.spec))
     oriented = any(oriented_set(spec) for spec in item.members)
     with sheet(states, looks, fraction=physics.fraction, oriented=oriented) as fig:
         for kind in figures:

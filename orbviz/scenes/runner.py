@@ -30,6 +30,7 @@ from orbviz.errors import OrbvizError, OutputError
 from orbviz.scenes.items import Item
 from orbviz.scenes.manifest import folder_lock, previous, unchanged, write_manifest
 from orbviz.scenes.outputs import THUMBNAIL, item_files
+from orbviz.scenes.scene_page import write_scene_page
 from orbviz.scenes.sheet import write_contact_sheet
 
 __all__ = ["THUMBNAIL", "plan_jobs", "run_item", "run_scene"]
@@ -286,7 +287,13 @@ def _run_locked(
     if todo:
         _run_items(todo, out, executor, jobs, progress, entries, save, note)
     save()
-    write_contact_sheet(out, manifest)
+    scene_page, left_out = write_scene_page(out, manifest)
+    if left_out and note is not None:
+        note(
+            f"{', '.join(left_out)} offer other levels than the other pages: left out of "
+            f"{scene_page}"
+        )
+    write_contact_sheet(out, manifest, scene_page=scene_page)
     return manifest
 
 

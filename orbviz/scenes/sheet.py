@@ -18,8 +18,14 @@ def _kind(file: str, name: str) -> str:
     return rest or Path(file).suffix[1:] or file
 
 
-def write_contact_sheet(out: Path, manifest: dict[str, Any]) -> Path:
-    """Write ``index.html``: a grid of thumbnails with labels, key numbers and file links."""
+def write_contact_sheet(
+    out: Path, manifest: dict[str, Any], *, scene_page: Path | None = None
+) -> Path:
+    """Write ``index.html``: a grid of thumbnails with labels, key numbers and file links.
+
+    A card whose item made an interactive page links its thumbnail to the page; the scene's
+    page of all pages, if any, is linked at the top.
+    """
     from orbviz.export import write_files
 
     cards = []
@@ -45,12 +51,20 @@ def write_contact_sheet(out: Path, manifest: dict[str, Any]) -> Path:
         else:
             numbers = f"{entry.get('panels', 0)} panels · {100 * entry.get('fraction', 0):g}%"
         alt = html.escape(entry.get("alt_text") or entry["name"], quote=True)
+        image = f'<img src="{html.escape(entry.get("thumbnail", ""))}" alt="{alt}" title="{alt}">'
+        pages = [f for f in entry.get("files", []) if f.endswith(".html")]
+        if pages:  # the thumbnail opens the interactive page
+            image = f'<a href="{html.escape(pages[0])}">{image}</a>'
         cards.append(
-            f'<figure class="card"><img src="{html.escape(entry.get("thumbnail", ""))}" '
-            f'alt="{alt}" title="{alt}"><figcaption><b>{name}</b> '
+            f'<figure class="card">{image}<figcaption><b>{name}</b> '
             f'<code>{spec}</code><br><span class="num">{numbers}</span><br>{links}'
             "</figcaption></figure>"
         )
+    whole = (
+        f'Every page in one: <a href="{html.escape(scene_page.name)}">{scene_page.name}</a>. '
+        if scene_page is not None
+        else ""
+    )
     page = f"""<!doctype html>
 <html lang="en"><head><meta charset="utf-8"><title>{html.escape(manifest["title"])}</title>
 <style>
@@ -64,8 +78,8 @@ figcaption {{ padding: 4px 2px; }}
 </style></head>
 <body><h1>{html.escape(manifest["title"])}</h1>
 <p>{len(manifest["items"])} items; numbers are the enclosed probability, the isovalue and the
-face count (or a sheet's panels). Each picture's description is its alt text. Made by
-orbviz.</p>
+face count (or a sheet's panels). Each picture's description is its alt text; a picture
+with an interactive page opens it. {whole}Made by orbviz.</p>
 <div class="grid">
 {chr(10).join(cards)}
 </div>

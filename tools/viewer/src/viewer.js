@@ -151,9 +151,14 @@ function resize(view) {
   view.aspect = width / height;
 }
 
+function framed() {
+  // a grid shares one camera and one scale; a chooser frames the orbital shown
+  return data.arrangement === "grid" ? reach : data.panels[state.active].reach;
+}
+
 function renderView(view) {
   if (!view.visible) return;
-  const half = reach * 1.15;
+  const half = framed() * 1.15;
   const aspect = view.aspect || 1;
   camera.left = -half * Math.max(aspect, 1);
   camera.right = half * Math.max(aspect, 1);
