@@ -362,3 +362,39 @@ def test_no_clobber_keeps_an_existing_file(tmp_path, capsys, argv, name):
     assert status == 2 and "no-clobber keeps existing files" in err and err.count("\n") == 1
     assert target.read_bytes() == b"keep me" and sorted(tmp_path.iterdir()) == [target]
     assert main([*argv, "-o", str(target)]) == 0 and target.read_bytes() != b"keep me"
+
+
+@pytest.mark.parametrize("suffix", [".glb", ".gltf"])
+def test_a_display_size_sets_the_longest_side_in_metres(real_mesh, tmp_path, suffix):
+    import trimesh
+
+    path = tmp_path / f"shown{suffix}"
+    real_mesh.export(path, display_size="20cm")
+    loaded = trimesh.load(path)  # trimesh's glTF reader, applying the z-up root node
+    points = np.vstack([b.vertices for b in real_mesh.bodies])
+    # brute force: the bounding box of the bodies in bohr, scaled to 0.2 m on its longest side
+    sides = points.max(axis=0) - points.min(axis=0)
+    expected = sorted(sides * 0.2 / sides.max())
+    assert sorted(loaded.extents) == pytest.approx(expected, rel=1e-5)
+    assert _gltf_unit(path) == "m"
+    report = _validate(path)  # the Khronos reference validator
+    assert report["issues"]["numErrors"] == 0
+
+
+@pytest.mark.parametrize(
+    "argv, fragment",
+    [
+        (["--display-size", "0.2m", "-o", "o.stl"], "--display-size: applies to .glb and .gltf"),
+        (["--display-size", "500m", "-o", "o.glb"], "from 1 mm to 100 m, like 0.2m"),
+        (["--display-size", "2 furlongs", "-o", "o.glb"], "got '2 furlongs'"),
+        (["--display-size", "0.5mm", "-o", "o.glb"], "from 1 mm to 100 m"),
+    ],
+)
+def test_bad_display_sizes_are_refused_before_any_work(tmp_path, capsys, argv, fragment):
+    from orbviz.cli import main
+
+    argv = [a if not a.startswith("o.") else str(tmp_path / a) for a in argv]
+    status = main(["mesh", "2pz", *argv])
+    err = capsys.readouterr().err
+    assert status == 2 and err.count("\n") == 1 and fragment in err, err
+    assert not any(tmp_path.iterdir())

@@ -76,22 +76,32 @@ def info(args: argparse.Namespace) -> int:
 
 def mesh(args: argparse.Namespace) -> int:
     """Write closed phase-coloured isosurface bodies, in the format the suffix names."""
-    from orbviz.export import check_output, encode_bodies, unit_scale, write_files
+    from orbviz.export import (
+        check_display,
+        check_output,
+        display_scale,
+        encode_bodies,
+        unit_scale,
+        write_files,
+    )
     from orbviz.surface.mesh import build_mesh
     from orbviz.surface.options import MeshOptions
 
     physics, options = _physics(args), options_from(args, MeshOptions)
     targets = check_output(args.output)
+    check_display(targets[0], options.display_size)
     report_path = _report_target(args.report)
     _keep(args, targets + ([report_path] if report_path else []))
     target = targets[0]
     state = make_state(args.spec, physics)
     result = build_mesh(state, options, fraction=physics.fraction)
-    files = encode_bodies(
-        result.bodies, target, scale=unit_scale(options.units), units=options.units
-    )
+    scale, units = unit_scale(options.units), options.units
+    if options.display_size is not None:  # the longest side at this size, in metres
+        scale = display_scale([b.vertices for b in result.bodies], options.display_size)
+        units = "m"
+    files = encode_bodies(result.bodies, target, scale=scale, units=units)
     if report_path is not None:  # the full report adds the level's check and the box's outside
-        report = {**result.report(), "files": [str(p) for p in files], "units": options.units}
+        report = {**result.report(), "files": [str(p) for p in files], "units": units}
         bodies = report["bodies"]
         files[report_path] = _json(report)
     else:

@@ -15,11 +15,13 @@ from pathlib import Path
 from types import ModuleType
 
 from orbviz.errors import OutputError
-from orbviz.export._units import UNITS, unit_scale
+from orbviz.export._units import DISPLAY_SUFFIXES, UNITS, display_scale, unit_scale
 from orbviz.export.atomic import atomic_folder, atomic_paths, check_targets
 from orbviz.surface.contour import Body
 
 __all__ = [
+    "check_display",
+    "display_scale",
     "SUFFIXES",
     "UNITS",
     "atomic_folder",
@@ -84,7 +86,11 @@ def check_output(path: str | os.PathLike[str], suffixes: Sequence[str] | None = 
 
 
 def write_bodies(
-    bodies: Sequence[Body], path: str | os.PathLike[str], *, units: str | None = None
+    bodies: Sequence[Body],
+    path: str | os.PathLike[str],
+    *,
+    units: str | None = None,
+    display_size: float | None = None,
 ) -> list[Path]:
     """Write finished bodies to ``path`` in the format its suffix names.
 
@@ -96,6 +102,8 @@ def write_bodies(
         Output file; companions (``.mtl``, ``.bin``) go beside it, named after it.
     units : {"bohr", "angstrom", "nm", "pm", "mm"}, optional
         Length unit of the written coordinates (default: the bodies' own).
+    display_size : float, optional
+        glTF only: scale so that the longest side is this many metres (instead of ``units``).
 
     Returns
     -------
@@ -106,7 +114,22 @@ def write_bodies(
     source = bodies[0].unit if bodies else "bohr"
     units = units or source
     scale = unit_scale(units, source)
+    if display_size is not None:
+        check_display(path, display_size)
+        scale, units = display_scale([b.vertices for b in bodies], display_size), "m"
     return write_files(encode_bodies(bodies, path, scale=scale, units=units))
+
+
+def check_display(path: Path, display_size: float | None) -> None:
+    """Refuse a display size for a format whose readers do not take lengths as metres."""
+    if display_size is not None and path.suffix.lower() not in DISPLAY_SUFFIXES:
+        from orbviz.errors import OptionError
+
+        raise OptionError(
+            "display_size",
+            "applies to .glb and .gltf (their viewers read metres), not "
+            f"{path.suffix or path.name}",
+        )
 
 
 def encode_bodies(

@@ -7,10 +7,14 @@ meaning and is refused.
 
 from __future__ import annotations
 
+from typing import Any
+
 from orbviz._defaults import LENGTH_UNITS
 from orbviz.errors import ParameterError
 
-__all__ = ["UNITS", "unit_scale"]
+__all__ = ["DISPLAY_SUFFIXES", "UNITS", "display_scale", "unit_scale"]
+
+DISPLAY_SUFFIXES = (".glb", ".gltf")  # formats whose readers take lengths as metres
 
 _METRES = {"angstrom": 1e-10, "nm": 1e-9, "pm": 1e-12}
 UNITS = LENGTH_UNITS
@@ -38,3 +42,20 @@ def unit_scale(units: str, source: str = "bohr") -> float:
     from scipy.constants import physical_constants
 
     return float(physical_constants["Bohr radius"][0] / _METRES[units])
+
+
+def display_scale(vertices: list[Any], metres: float) -> float:
+    """Return the multiplier that makes the longest side of the bounding box ``metres`` long.
+
+    Parameters
+    ----------
+    vertices : list of (V, 3) arrays
+        Every body's vertices, in any one unit.
+    metres : float
+        The wanted longest side.
+    """
+    import numpy as np
+
+    points = np.vstack([v for v in vertices if len(v)])
+    side = float((points.max(axis=0) - points.min(axis=0)).max())
+    return metres / side

@@ -77,7 +77,13 @@ class OrbitalMesh:
         """One ``pyvista.MultiBlock``: a PolyData per body with Normals, RGBA and phase (bohr)."""
         return pyvista_blocks(self.bodies)
 
-    def export(self, path: str | os.PathLike[str], *, units: str = "bohr") -> list[Path]:
+    def export(
+        self,
+        path: str | os.PathLike[str],
+        *,
+        units: str = "bohr",
+        display_size: float | str | None = None,
+    ) -> list[Path]:
         """Write the bodies in the format the suffix names (.stl .obj .glb .gltf .ply .3mf).
 
         Parameters
@@ -87,15 +93,21 @@ class OrbitalMesh:
             before writing and the set is replaced as a whole.
         units : {"bohr", "angstrom", "nm", "pm"}, default: "bohr"
             Length unit of the written coordinates.
+        display_size : float or str, optional
+            glTF only: the longest side in metres (``0.2`` or ``"20cm"``), for AR and
+            room-scale viewers, instead of ``units``.
 
         Returns
         -------
         list of Path
             Every file written.
         """
+        from orbviz._options import build
         from orbviz.export import write_bodies
+        from orbviz.surface.options import MeshOptions
 
-        return write_bodies(self.bodies, path, units=units)
+        size = build(MeshOptions, {"display_size": display_size}).display_size
+        return write_bodies(self.bodies, path, units=units, display_size=size)
 
     def body_facts(self) -> list[dict[str, Any]]:
         """Per body: name, vertex and face counts, pieces, volume, area, watertightness."""

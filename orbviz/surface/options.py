@@ -2,13 +2,35 @@
 
 from __future__ import annotations
 
+import math
+import re
 from dataclasses import dataclass
+from typing import Any
 
 from orbviz._defaults import DEFAULTS, LENGTH_UNITS, LIMITS
 from orbviz._options import choice, integer, option
 from orbviz.surface.colors import DEFAULT_PAIR, ColorPair, color_pair
 
-__all__ = ["MeshOptions", "colors_option", "grid_option"]
+__all__ = ["MeshOptions", "colors_option", "display_length", "grid_option"]
+
+_METRES = {"m": 1.0, "cm": 0.01, "mm": 0.001}
+
+
+def display_length(raw: Any) -> float | None:
+    """Read a display size, ``0.2m``, ``20cm``, ``200mm`` or a number of metres (1 mm to 100 m)."""
+    rule = "expected a length from 1 mm to 100 m, like 0.2m, 20cm or 200mm"
+    if raw is None or (isinstance(raw, str) and raw.strip().lower() == "none"):
+        return None
+    if isinstance(raw, (int, float)) and not isinstance(raw, bool):  # a number is metres
+        metres = float(raw)
+    else:
+        match = re.fullmatch(r"\s*([0-9]*\.?[0-9]+(?:e[+-]?\d+)?)\s*(m|cm|mm)\s*", str(raw), re.I)
+        if match is None:
+            raise ValueError(f"{rule}, got {raw!r}")
+        metres = float(match.group(1)) * _METRES[match.group(2).lower()]
+    if not (math.isfinite(metres) and 0.001 <= metres <= 100.0):
+        raise ValueError(f"{rule}, got {raw!r}")
+    return metres
 
 
 def grid_option(default: int = DEFAULTS.grid) -> int:
@@ -45,6 +67,9 @@ class MeshOptions:
         Taubin smoothing iterations (0: none).
     units : {"bohr", "angstrom", "nm", "pm"}, default: "bohr"
         Length unit of the written coordinates.
+    display_size : float or None, default: None
+        glTF only: scale the model so that its longest side is this many metres (viewers,
+        AR and room-scale, read glTF lengths as metres); None keeps ``units``.
     colors : pair of RGBA
         Positive and negative phase colours of a real state.
     """
@@ -67,5 +92,12 @@ class MeshOptions:
         "length unit of the written coordinates",
         choice(*(u for u in LENGTH_UNITS if u != "mm")),
         metavar="{bohr,angstrom,nm,pm}",
+    )
+    display_size: float | None = option(
+        None,
+        "for .glb and .gltf: scale so that the longest side is this long in AR and room-scale "
+        "viewers, like 0.2m or 20cm (instead of --units)",
+        display_length,
+        metavar="LENGTH",
     )
     colors: ColorPair = colors_option()
