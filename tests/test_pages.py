@@ -134,11 +134,17 @@ def test_the_numbers_on_a_page_match_closed_forms(pages):
         (["--levels", "nan"], "got 'nan'"),
         (["--page-faces", "10"], "--page-faces: expected a whole number from 1000 to 200000"),
         (["--arrangement", "pile"], "expected grid, chooser or none"),
+        # docs/limits.md: a grid page draws each panel on its own WebGL canvas, at most 8
+        # (browsers keep about 16 contexts a page: common practice, no source); a page holds
+        # at most 24 orbitals, as a sheet
+        (["4f", "3d", "--arrangement", "grid"], "a grid page holds at most 8 orbitals"),
+        (["4f", "5f", "6f", "7f"], "--arrangement: a page holds at most 24 orbitals, not 28"),
     ],
 )
 def test_bad_page_options_are_refused_in_one_line(tmp_path, capsys, argv, fragment):
     out = tmp_path / "p.html"
-    status = main(["render", "2pz", *argv, "-o", str(out)])
+    spec = [] if argv[0][0].isdigit() else ["2pz"]
+    status = main(["render", *spec, *argv, "-o", str(out)])
     err = capsys.readouterr().err
     assert status == 2 and err.count("\n") == 1 and fragment in err, err
     assert not out.exists()

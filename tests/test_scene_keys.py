@@ -168,6 +168,12 @@ def test_page_keys(tmp_path, capsys, key, value, fragment):
     assert f"lab.toml: orbital 1 ('2pz'): {fragment}" in err
 
 
+def test_a_sheet_page_must_hold_its_orbitals(tmp_path, capsys):
+    text = '[[sheet]]\nspecs = ["4f", "3d"]\noutputs = ["html"]\npage = { arrangement = "grid" }\n'
+    err = _run(tmp_path, capsys, text)
+    assert "sheet 1 ('4f 3d'): page.arrangement: a grid page holds at most 8 orbitals" in err
+
+
 def test_an_item_may_not_take_a_file_the_batch_keeps(tmp_path, capsys):
     text = '[[orbital]]\nspec = "2pz"\nname = "Index"\noutputs = ["html"]\n'
     err = _run(tmp_path, capsys, text)

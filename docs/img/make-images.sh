@@ -12,3 +12,6 @@ orbviz render 3d --width 175mm --dpi 150 -o sheet-3d.png
 orbviz plot 3s --kind slice --width 120mm --dpi 200 -o plot-3s-slice.png
 orbviz plot 3pz --kind slice --quantity psi --width 120mm --dpi 200 -o plot-3pz-psi.png
 orbviz plot 3s 3p 3d --kind radial --width 120mm --dpi 200 -o plot-n3-radial.png
+# a page, photographed in headless chromium (software WebGL)
+orbviz render 3dz2 -o /tmp/orbviz-page-3dz2.html
+python ../../tests/tools/page_screenshot.py /tmp/orbviz-page-3dz2.html page-3dz2.png

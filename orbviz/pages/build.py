@@ -25,7 +25,7 @@ from orbviz.states.state import State
 from orbviz.surface.mesh import OrbitalMesh, build_mesh
 from orbviz.surface.options import MeshOptions
 
-from .options import PageOptions
+from .options import PageOptions, arrangement_of
 
 __all__ = ["page_data", "page_html"]
 
@@ -129,10 +129,10 @@ def page_data(
     title : str, optional
         The page's title (default: the figure's title, else the orbitals' labels).
     """
+    arrangement = arrangement_of(len(states), options)
     levels = _levels(options, fraction)
     shown = levels.index(round(fraction, 6))
     panels = [_panel(s, figure, options, levels, shown) for s in states]
-    arrangement = options.arrangement or ("grid" if len(states) <= 4 else "chooser")
     view = figure.view or VIEWS["iso"]
     return {
         "title": title or figure.title or ", ".join(p["label"] for p in panels),

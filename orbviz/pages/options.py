@@ -9,9 +9,13 @@ from typing import Any
 from orbviz._defaults import LIMITS
 from orbviz._options import choice, integer, option
 
-__all__ = ["PageOptions", "fractions"]
+__all__ = ["MAX_GRID", "MAX_PANELS", "PageOptions", "arrangement_of", "fractions"]
 
 MAX_LEVELS = 5  # each level is a surface per panel: five keep a page's weight in bounds
+MAX_PANELS = 24  # as a sheet: the 4f and 5f sets and more
+# a grid draws each panel on its own WebGL canvas; browsers keep about 16 contexts a page
+# (common practice, no source), and a phone far fewer
+MAX_GRID = 8
 
 
 def fractions(raw: Any) -> tuple[float, ...]:
@@ -73,3 +77,25 @@ class PageOptions:
         choice("grid", "chooser", allow_none=True),
         metavar="{grid,chooser}",
     )
+
+
+def arrangement_of(count: int, options: PageOptions) -> str:
+    """Return ``grid`` or ``chooser`` for a page of ``count`` orbitals, checked.
+
+    Raises
+    ------
+    OptionError
+        For more than MAX_PANELS orbitals, or a grid of more than MAX_GRID.
+    """
+    from orbviz.errors import OptionError
+
+    if count > MAX_PANELS:
+        raise OptionError("arrangement", f"a page holds at most {MAX_PANELS} orbitals, not {count}")
+    arrangement = options.arrangement or ("grid" if count <= 4 else "chooser")
+    if arrangement == "grid" and count > MAX_GRID:
+        raise OptionError(
+            "arrangement",
+            f"a grid page holds at most {MAX_GRID} orbitals (one WebGL canvas each), not "
+            f"{count}; use chooser",
+        )
+    return arrangement

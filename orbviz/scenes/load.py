@@ -22,7 +22,7 @@ from orbviz._options import build, external_keys
 from orbviz.errors import OptionError, OrbvizError, SceneError
 from orbviz.figures.options import AnimationOptions, FigureOptions, PlotOptions, page_layout
 from orbviz.models.options import ModelOptions
-from orbviz.pages.options import PageOptions
+from orbviz.pages.options import PageOptions, arrangement_of
 from orbviz.scenes.items import (
     ANIMATION_OUTPUTS,
     FIGURE_OUTPUTS,
@@ -181,7 +181,7 @@ def _item(
             sheet=sheet,
             animated=bool(set(outputs) & set(ANIMATION_OUTPUTS)),
         )
-    _check_page(jobs["figure"], members, outputs, where)
+    _check_page(jobs, members, outputs, where)
     text = " ".join(members)
     if name is None:
         name = slug(text, physics.Z)
@@ -233,13 +233,23 @@ def _jobs(values: dict[str, Any], where: _Where) -> dict[str, Any]:
 
 
 def _check_page(
-    figure: FigureOptions, members: list[str], outputs: Sequence[str], where: _Where
+    jobs: dict[str, Any], members: list[str], outputs: Sequence[str], where: _Where
 ) -> None:
-    """Check the title's placeholders and that the page holds its panels at the printed size."""
+    """Check the title's placeholders and that the page holds its panels at the printed size.
+
+    An interactive page is checked likewise: its arrangement must hold the panels.
+    """
+    figure = jobs["figure"]
     try:
         check_title(figure.title)
     except ValueError as error:
         raise where.error("render.title", str(error)) from None
+    if "html" in outputs:
+        count = sum(len(set_members(m) or [m]) for m in members)
+        try:
+            arrangement_of(count, jobs["page"])
+        except OptionError as error:
+            raise where.error(f"page.{error.key}", error.rule) from None
     if set(outputs) & set(FIGURE_OUTPUTS):
         panels = 1 if figure.overlay else sum(len(set_members(m) or [m]) for m in members)
         try:
