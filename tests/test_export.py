@@ -99,7 +99,10 @@ def test_gltf_round_trip(real_mesh, tmp_path, suffix):
     assert set(scene.geometry) == {"positive", "negative"}
     for body in real_mesh.bodies:
         geometry = scene.geometry[body.name]
-        np.testing.assert_allclose(geometry.visual.material.baseColorFactor, body.colors[0])
+        # glTF colours are linear light (glTF 2.0, section 3.9.2): encoded back to sRGB they
+        # are the figure's colour
+        shown = _srgb(geometry.visual.material.baseColorFactor)
+        np.testing.assert_allclose(shown[:3], body.colors[0][:3], atol=1.5)
         # vertex data keep the physics frame (z is the quantisation axis)
         np.testing.assert_allclose(
             np.sort(geometry.vertices[:, 2]), np.sort(body.vertices[:, 2]), atol=1e-5
@@ -180,8 +183,35 @@ def test_default_phase_colours_in_the_file_are_tols_high_contrast_pair(real_mesh
 
     write_bodies(real_mesh.bodies, tmp_path / "c.glb")
     scene = trimesh.load(tmp_path / "c.glb", process=False)
-    colour = {n: tuple(g.visual.material.baseColorFactor[:3]) for n, g in scene.geometry.items()}
-    assert colour == {"positive": (0x00, 0x44, 0x88), "negative": (0xDD, 0xAA, 0x33)}
+    colour = {
+        n: tuple(np.round(_srgb(g.visual.material.baseColorFactor)[:3]).astype(int))
+        for n, g in scene.geometry.items()
+    }
+    # stored as linear light (glTF 2.0, 3.9.2), within one step of 255 after the round trip
+    assert np.abs(np.subtract(colour["positive"], (0x00, 0x44, 0x88))).max() <= 1
+    assert np.abs(np.subtract(colour["negative"], (0xDD, 0xAA, 0x33))).max() <= 1
+
+
+def _srgb(linear_bytes) -> np.ndarray:
+    """Linear-light bytes -> sRGB bytes by the IEC 61966-2-1 transfer function (alpha kept)."""
+    c = np.asarray(linear_bytes, dtype=float) / 255.0
+    rgb = np.where(c[:3] <= 0.0031308, 12.92 * c[:3], 1.055 * c[:3] ** (1 / 2.4) - 0.055)
+    return np.concatenate([255.0 * rgb, 255.0 * c[3:]])
+
+
+def test_complex_vertex_colours_are_stored_as_linear_light(complex_mesh, tmp_path):
+    import trimesh
+
+    write_bodies(complex_mesh.bodies, tmp_path / "z.glb")
+    scene = trimesh.load(tmp_path / "z.glb", process=False)
+    (geometry,) = scene.geometry.values()
+    stored = np.asarray(geometry.visual.vertex_attributes["color"], dtype=float)
+    expected = complex_mesh.bodies[0].colors[:, :3].astype(float)
+    shown = np.array([_srgb(c)[:3] for c in stored[:500]])
+    # 8-bit linear values are coarse in the darks (one linear step is 13 sRGB steps at black,
+    # ~5 near the wheel's darkest channels, ~20): bounded there, and exact on average
+    error = np.abs(shown - expected[:500])
+    assert error.max() <= 8 and error.mean() <= 1.0
 
 
 def _read_back(path: Path) -> tuple[np.ndarray, str | None]:

@@ -329,7 +329,8 @@ def demo(args: argparse.Namespace) -> int:
     text = files("orbviz").joinpath("data/demo.toml").read_text(encoding="utf-8")
     scene = parse_scene(text, "demo.toml")
     print(
-        f"orbviz demo: {len(scene.items)} items into {out}/ (figures, meshes, pages and a printable model)"
+        f"orbviz demo: {len(scene.items)} items into {out}/ (figures, meshes, pages and a "
+        "printable model)"
     )
     return _run_batch(scene, out, args)
 

@@ -2,7 +2,9 @@
 
 One mesh per body, each with its own explicit, non-metallic material: a real state's phases get a
 PBR base colour each, a complex state's surface carries COLOR_0 vertex colours under a white
-material. The vertex data stay in the physics frame (z is the quantisation axis). One root node,
+material. Colours are stored as linear light, as glTF 2.0 reads them (section 3.9.2), so a
+viewer shows the sRGB colours of the figures. The vertex data stay in the physics frame (z is
+the quantisation axis). One root node,
 ``orbviz-z-up``, rotates by -90 degrees about x, so that viewers, which are +Y up, show z up.
 glTF units are metres: the numbers are the chosen length unit (bohr by default), and an
 ``extras`` entry on the root says which.
@@ -82,4 +84,5 @@ def encode_scene(
 
 def encode(bodies: Sequence[Body], path: Path, *, scale: float, units: str) -> dict[Path, bytes]:
     """GLB, or glTF plus its buffer file."""
-    return encode_scene(trimesh_scene(bodies, scale), path, tree_edit=z_up_root(units))
+    scene = trimesh_scene(bodies, scale, linear=True)
+    return encode_scene(scene, path, tree_edit=z_up_root(units))

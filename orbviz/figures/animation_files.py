@@ -120,7 +120,9 @@ def _glb(animation: Animation, path: Path) -> list[Path]:
     count = len(animation.bodies)
     for k, bodies in enumerate(animation.bodies):
         scene.graph.update(frame_from=scene.graph.base_frame, frame_to=f"frame-{k}")
-        for name, geometry in trimesh_scene(bodies, prefix=f"frame-{k}-").geometry.items():
+        for name, geometry in trimesh_scene(
+            bodies, prefix=f"frame-{k}-", linear=True
+        ).geometry.items():
             scene.add_geometry(
                 geometry, geom_name=name, node_name=name, parent_node_name=f"frame-{k}"
             )

@@ -43,7 +43,7 @@ def _glb(mesh: OrbitalMesh, scale: float, units: str) -> str:
     from orbviz.surface.convert import trimesh_scene
 
     bodies = [dataclasses.replace(b, normals=np.empty((0, 3))) for b in mesh.bodies]
-    scene = trimesh_scene(bodies, scale)
+    scene = trimesh_scene(bodies, scale, linear=True)
     data = encode_scene(scene, Path("page.glb"), tree_edit=z_up_root(units))[Path("page.glb")]
     return base64.b64encode(data).decode("ascii")
 

@@ -27,6 +27,7 @@ __all__ = [
     "ColorPair",
     "color_pair",
     "phase_colors",
+    "linear_bytes",
     "sign_colors",
 ]
 
@@ -104,3 +105,17 @@ def phase_colors(angle: np.ndarray) -> np.ndarray:
     rgba = np.full((len(index), 4), 255, dtype=np.uint8)
     rgba[:, :3] = table[index % len(table)]
     return rgba
+
+
+def linear_bytes(rgba: np.ndarray) -> np.ndarray:
+    """Return sRGB-encoded RGBA bytes as linear-light bytes (alpha kept), as glTF stores colour.
+
+    glTF 2.0 (section 3.9.2) takes ``baseColorFactor`` and ``COLOR_0`` as linear values; the
+    sRGB transfer function is IEC 61966-2-1's.
+    """
+    rgba = np.asarray(rgba, dtype=np.uint8)
+    c = rgba[..., :3].astype(np.float64) / 255.0
+    linear = np.where(c <= 0.04045, c / 12.92, ((c + 0.055) / 1.055) ** 2.4)
+    out = rgba.copy()
+    out[..., :3] = np.round(255.0 * linear).astype(np.uint8)
+    return out

@@ -32,14 +32,19 @@ def _material(name: str, rgba: Sequence[int]) -> Any:
     )
 
 
-def body_trimesh(body: Body, scale: float = 1.0, *, white_under_colours: bool = True) -> Any:
+def body_trimesh(
+    body: Body, scale: float = 1.0, *, white_under_colours: bool = True, linear: bool = False
+) -> Any:
     """One body as a ``trimesh.Trimesh``: a named phase material, or vertex colours under white.
 
     With ``white_under_colours`` off, vertex colours come without any material (what OBJ's
-    ``v x y z r g b`` lines carry).
+    ``v x y z r g b`` lines carry). With ``linear``, colours are stored as linear light, as
+    glTF reads them; otherwise as the sRGB values the figures show.
     """
     import trimesh
     from trimesh.visual import ColorVisuals, TextureVisuals
+
+    from orbviz.surface.colors import linear_bytes
 
     mesh = trimesh.Trimesh(
         vertices=body.vertices * scale,
@@ -47,14 +52,15 @@ def body_trimesh(body: Body, scale: float = 1.0, *, white_under_colours: bool = 
         vertex_normals=body.normals if len(body.normals) else None,
         process=False,
     )
-    uniform = len(body.colors) and bool(np.all(body.colors == body.colors[0]))
+    colors = linear_bytes(body.colors) if linear and len(body.colors) else body.colors
+    uniform = len(colors) and bool(np.all(colors == colors[0]))
     if not uniform and not white_under_colours:
-        mesh.visual = ColorVisuals(mesh, vertex_colors=body.colors)
+        mesh.visual = ColorVisuals(mesh, vertex_colors=colors)
         return mesh
-    colour = body.colors[0] if uniform else (255, 255, 255, 255)
+    colour = colors[0] if uniform else (255, 255, 255, 255)
     mesh.visual = TextureVisuals(material=_material(body.name, colour))
-    if not uniform and len(body.colors):
-        mesh.visual.vertex_attributes["color"] = body.colors
+    if not uniform and len(colors):
+        mesh.visual.vertex_attributes["color"] = colors
     return mesh
 
 
@@ -64,14 +70,18 @@ def trimesh_scene(
     *,
     prefix: str = "",
     white_under_colours: bool = True,
+    linear: bool = False,
 ) -> Any:
-    """All bodies in one ``trimesh.Scene``, each a named geometry and node (``prefix`` + name)."""
+    """All bodies in one ``trimesh.Scene``, each a named geometry and node (``prefix`` + name).
+
+    ``linear`` stores the colours as linear light, as glTF reads them (see :func:`body_trimesh`).
+    """
     import trimesh
 
     scene = trimesh.Scene()
     for body in bodies:
         name = f"{prefix}{body.name}"
-        mesh = body_trimesh(body, scale, white_under_colours=white_under_colours)
+        mesh = body_trimesh(body, scale, white_under_colours=white_under_colours, linear=linear)
         scene.add_geometry(mesh, geom_name=name, node_name=name)
     return scene
 

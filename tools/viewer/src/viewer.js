@@ -106,17 +106,7 @@ async function makeScene(panel) {
     const sources = [];
     gltf.scene.traverse((o) => {
       if (o.isMesh) {
-        o.geometry.computeVertexNormals();
-        // orbviz writes its colours as sRGB values (as the figures show them): read them so
-        const c = o.material.color;
-        c.setRGB(c.r, c.g, c.b, THREE.SRGBColorSpace);
-        const rgba = o.geometry.getAttribute("color");
-        if (rgba) {
-          for (let i = 0; i < rgba.count; i++) {
-            const v = new THREE.Color().setRGB(rgba.getX(i), rgba.getY(i), rgba.getZ(i), THREE.SRGBColorSpace);
-            rgba.setXYZ(i, v.r, v.g, v.b);
-          }
-        }
+        o.geometry.computeVertexNormals(); // the GLB colours are linear light, as glTF says
         sources.push({ mesh: o, base: o.material });
       }
     });
