@@ -9,7 +9,7 @@ Run: python benchmarks/bench_page.py
 
 from __future__ import annotations
 
-import shutil
+import json
 import statistics
 import subprocess
 import sys
@@ -27,25 +27,11 @@ def _once(argv: list[str]) -> float:
 
 
 def _first_frames(page: Path, runs: int) -> list[float]:
-    from playwright.sync_api import sync_playwright
-
-    exe = shutil.which("chromium") or shutil.which("chromium-browser")
-    times = []
-    with sync_playwright() as p:
-        browser = p.chromium.launch(
-            executable_path=exe,
-            args=["--use-angle=swiftshader", "--enable-unsafe-swiftshader", "--no-sandbox"],
-        )
-        for _ in range(runs):
-            context = browser.new_context(viewport={"width": 900, "height": 820}, offline=True)
-            tab = context.new_page()
-            start = time.perf_counter()
-            tab.goto(page.resolve().as_uri())
-            tab.wait_for_selector("#orbviz[data-ready=yes]", timeout=120_000)
-            times.append(time.perf_counter() - start)
-            context.close()
-        browser.close()
-    return times
+    """Times to the first drawn frame, by the screenshot tool of the tests (headless chromium)."""
+    tool = Path(__file__).parents[1] / "tests" / "tools" / "page_screenshot.py"
+    shot = page.with_suffix(".png")
+    argv = [sys.executable, str(tool), str(page), str(shot), "--runs", str(runs), "--json"]
+    return json.loads(subprocess.run(argv, check=True, capture_output=True, text=True).stdout)
 
 
 def main(repeats: int = 5) -> None:

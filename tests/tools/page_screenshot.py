@@ -1,6 +1,6 @@
 """Open an orbviz page offline in Debian's chromium; save a screenshot; print load times.
 
-    python tests/tools/page_screenshot.py PAGE.html SHOT.png [--runs N]
+    python tests/tools/page_screenshot.py PAGE.html SHOT.png [--runs N] [--json]
 
 Used for docs/img/page-3dz2.png and for the load-time figure in benchmarks/README.md: the time
 from navigation to the page's first drawn frame (``data-ready``), with software WebGL.
@@ -9,6 +9,7 @@ from navigation to the page's first drawn frame (``data-ready``), with software 
 from __future__ import annotations
 
 import argparse
+import json
 import shutil
 import statistics
 import time
@@ -22,6 +23,7 @@ def main() -> None:
     parser.add_argument("page", type=Path)
     parser.add_argument("shot", type=Path)
     parser.add_argument("--runs", type=int, default=1)
+    parser.add_argument("--json", action="store_true", help="print the times as a JSON list")
     args = parser.parse_args()
     exe = shutil.which("chromium") or shutil.which("chromium-browser")
     times = []
@@ -40,7 +42,10 @@ def main() -> None:
             page.screenshot(path=str(args.shot))
             context.close()
         browser.close()
-    print(f"first frame: median {statistics.median(times):.2f} s over {len(times)} run(s)")
+    if args.json:
+        print(json.dumps(times))
+    else:
+        print(f"first frame: median {statistics.median(times):.2f} s over {len(times)} run(s)")
 
 
 if __name__ == "__main__":
