@@ -175,6 +175,31 @@ def _page(
     return 0
 
 
+def sample(args: argparse.Namespace) -> int:
+    """Write exact samples of |psi|^2 as a point cloud, in bohr or at a physical size."""
+    from orbviz.export import check_output, write_files
+    from orbviz.export.points import POINT_SUFFIXES, encode_points
+    from orbviz.levels.sampling import sample as draw
+    from orbviz.models.engraving import SampleOptions, prepare
+
+    physics, options = _physics(args), options_from(args, SampleOptions)
+    (target,) = check_output(args.output, list(POINT_SUFFIXES))
+    _keep(args, [target])
+    state = make_state(args.spec, physics)
+    drawn = draw(state, options.points, seed=options.seed)
+    points, units, notes = prepare(drawn, state, options)
+    write_files(encode_points(points, target, units))
+    low, high = points.positions.min(axis=0), points.positions.max(axis=0)
+    box = " x ".join(f"{v:.3g}" for v in high - low)
+    print(
+        f"wrote {target}: {len(points):,} points of {state.label} ({box} {units}); "
+        f"{100 * drawn.acceptance:.3g}% of candidates kept"
+    )
+    for text in [*state.notes, *notes]:
+        note(text)
+    return 0
+
+
 def plot(args: argparse.Namespace) -> int:
     """Plot slices or radial distributions of one or several orbitals."""
     from orbviz.export import check_output
@@ -342,6 +367,7 @@ COMMANDS = {
     "plot": plot,
     "model": model,
     "animate": animate,
+    "sample": sample,
     "batch": batch,
     "demo": demo,
 }

@@ -142,6 +142,14 @@ def _animate(parser: argparse.ArgumentParser) -> None:
     add_options(parser, AnimationOptions)
 
 
+def _sample(parser: argparse.ArgumentParser) -> None:
+    from orbviz.models.engraving import SampleOptions
+
+    _spec(parser)
+    _output(parser, "output: .ply (binary, with phase colours), .csv, .xyz or .npy")
+    add_options(parser, SampleOptions)
+
+
 def _batch(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("scene", help="scene file (.toml)")
     parser.add_argument("-o", "--output", required=True, metavar="DIR", help="output folder")
@@ -219,6 +227,16 @@ _COMMANDS: dict[str, tuple[str, str, bool, Callable[[argparse.ArgumentParser], N
         "superposition of degenerate states does not move and is refused.",
         True,
         _animate,
+    ),
+    "sample": (
+        "exact samples of |psi|^2: point clouds (PLY, CSV, XYZ, NPY), for engraving too",
+        "Independent positions distributed exactly as |psi|^2 (not a histogram of the grid), "
+        "each with the sign of psi (real states) or its phase angle (complex). In bohr, or "
+        "--units angstrom; --size or --block scale the cloud to millimetres (the far 0.1% "
+        "left out), --min-spacing thins it for an engraver, --inside keeps the points inside "
+        "the surface enclosing that fraction.",
+        True,
+        _sample,
     ),
     "batch": (
         "run a scene file: figures, meshes and models of many orbitals in parallel",
