@@ -198,6 +198,7 @@ def test_every_option_of_every_command_has_help_with_its_default():
         "plot",
         "model",
         "animate",
+        "sample",
         "batch",
         "demo",
     }

@@ -219,7 +219,7 @@ CASES = [
     (["model", "2pz", "--min-feature", "0", "-o", "o.stl"], "got '0'", "from 0.1 to 10 mm"),
     (["model", "2pz", "--cut", "slice", "-o", "o.stl"], "'slice'", "half, quarter or none"),
     (["model", "2pz", "--split", "-o", "o.3mf"], "'o.3mf'", "split parts are written as .stl"),
-    (["plot", "2pz", "--kind", "bars", "-o", "o.png"], "'bars'", "slice or radial"),
+    (["plot", "2pz", "--kind", "bars", "-o", "o.png"], "'bars'", "slice, radial or dots"),
     (["plot", "2pz", "--plane", "xw", "-o", "o.png"], "'xw'", "expected xz, xy"),
     (["plot", "2pz", "--extent", "-1", "-o", "o.png"], "got '-1'", "above 0"),
     (["demo", "-o", "d", "--jobs", "0"], "got 0", f"from 1 to {LIMITS.jobs_max}"),

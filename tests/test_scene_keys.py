@@ -60,6 +60,8 @@ RENDER = [
     ("outer", "2", "render.outer: expected a number from 0.01"),
     ("extent", "-3", "render.extent: expected a number above 0"),
     ("colour", '"red"', "render.colour: unknown key"),
+    ("style", '"fog"', "render.style: expected surface, cloud or volume"),
+    ("points", "10", "render.points: expected a whole number from 1000 to 1000000"),
 ]
 PLOT = [
     ("plane", '"ab"', "plot.plane: expected xz, xy, yz or none"),
@@ -71,6 +73,18 @@ PLOT = [
     ("height", "5", "plot.height: expected a printed length"),
     ("dpi", "5000", "plot.dpi: expected a whole number from 72 to 2400"),
     ("kind", '"radial"', "plot.kind: unknown key"),
+    ("slab", "-1", "plot.slab: expected a number above 0"),
+    ("points", "5", "plot.points: expected a whole number from 1000 to 1000000"),
+]
+SAMPLE = [
+    ("points", "0", "sample.points: expected a whole number from 1 to 10000000"),
+    ("seed", '"x"', "sample.seed: expected a whole number"),
+    ("size", "1", "sample.size: expected a number from 5 to 1000"),
+    ("block", '"50x50"', "sample.block: expected WxDxH with a unit"),
+    ("margin", "-1", "sample.margin: expected a number from 0 to 100"),
+    ("min_spacing", "0.1", "sample.min_spacing: needs a physical size"),
+    ("inside", "2", "sample.inside: expected a number from 0.01 to 0.999"),
+    ("units", '"mm"', "sample.units: expected bohr or angstrom"),
 ]
 ANIMATE = [
     ("frames", "0", "animate.frames: expected a whole number"),
@@ -101,6 +115,7 @@ PAGE = [
 def test_every_key_of_every_table_is_listed_here():
     from orbviz._options import external_keys
     from orbviz.figures.options import AnimationOptions, FigureOptions, PlotOptions
+    from orbviz.models.engraving import SampleOptions
     from orbviz.models.options import ModelOptions
     from orbviz.pages.options import PageOptions
 
@@ -110,6 +125,7 @@ def test_every_key_of_every_table_is_listed_here():
         "animate": {k for k, _, _ in ANIMATE},
         "model": {k for k, _, _ in MODEL},
         "page": {k for k, _, _ in PAGE},
+        "sample": {k for k, _, _ in SAMPLE},
     }
     shared = {"grid", "colors"}  # checked as common keys
     for table, cls in [
@@ -118,6 +134,7 @@ def test_every_key_of_every_table_is_listed_here():
         ("animate", AnimationOptions),
         ("model", ModelOptions),
         ("page", PageOptions),
+        ("sample", SampleOptions),
     ]:
         keys = set(external_keys(cls).values()) - shared - {"kind", "split"}
         if table == "animate":
@@ -157,6 +174,13 @@ def test_render_keys(tmp_path, capsys, key, value, fragment):
 @pytest.mark.parametrize(("key", "value", "fragment"), PLOT)
 def test_plot_keys(tmp_path, capsys, key, value, fragment):
     text = f'[[orbital]]\nspec = "2pz"\noutputs = ["slice.png"]\nplot = {{ {key} = {value} }}\n'
+    err = _run(tmp_path, capsys, text)
+    assert f"lab.toml: orbital 1 ('2pz'): {fragment}" in err
+
+
+@pytest.mark.parametrize(("key", "value", "fragment"), SAMPLE)
+def test_sample_keys(tmp_path, capsys, key, value, fragment):
+    text = f'[[orbital]]\nspec = "2pz"\noutputs = ["points.ply"]\nsample = {{ {key} = {value} }}\n'
     err = _run(tmp_path, capsys, text)
     assert f"lab.toml: orbital 1 ('2pz'): {fragment}" in err
 

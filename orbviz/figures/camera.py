@@ -9,11 +9,12 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from orbviz.figures.options import SET_VIEW, VIEWS
+from orbviz.figures.page import geometry
 
 if TYPE_CHECKING:
-    from orbviz.figures.figure import Panel
+    from orbviz.figures.figure import Figure, Panel
 
-__all__ = ["camera_axes", "default_view", "place_lights"]
+__all__ = ["camera_axes", "default_view", "frame", "place_lights"]
 
 
 def camera_axes(view: tuple[float, float]) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
@@ -95,3 +96,27 @@ def default_view(panels: Sequence[Panel], oriented: bool) -> tuple[float, float]
         return VIEWS["iso"]
     candidates = [(float(az), float(el)) for el in (25, 10, 40) for az in range(0, 360, 15)]
     return max(candidates, key=clearance)
+
+
+def frame(fig: Figure, vertices: np.ndarray) -> float:
+    """Point an orthographic camera at the nucleus; return the half height of every panel."""
+    options = fig.options
+    toward, right, up = camera_axes(fig.view)
+    panel_w, panel_h = geometry(options, *fig.layout).panel
+    aspect = panel_h / panel_w
+    reach = float(np.abs(vertices).max()) if options.extent is None else options.extent
+    if options.extent is None:
+        half_w = np.abs(vertices @ right).max()
+        half_h = np.abs(vertices @ up).max()
+        half_height = 1.2 * max(half_h, half_w * aspect)
+    else:
+        half_height = 1.05 * options.extent * max(1.0, aspect)
+    camera = fig.plotter.camera
+    fig.plotter.enable_parallel_projection()
+    camera.focal_point = (0.0, 0.0, 0.0)
+    camera.position = tuple(toward * 10 * max(reach, 1.0))
+    camera.up = tuple(up)
+    camera.parallel_scale = half_height
+    camera.clipping_range = (1e-3, 40 * max(reach, 1.0))
+    place_lights(fig.plotter, options.lighting, toward, right, up)
+    return float(half_height)

@@ -27,10 +27,12 @@ from orbviz._defaults import DEFAULTS, LIMITS
 from orbviz._options import checked
 from orbviz._progress import progress
 from orbviz.errors import OptionError, ParameterError
-from orbviz.figures.camera import camera_axes, default_view, place_lights
+from orbviz.figures.camera import default_view, frame
+from orbviz.figures.cloud import add_cloud, add_volume, styled
 from orbviz.figures.options import FigureOptions, page_layout
 from orbviz.figures.overlays import add_axis_lines, add_bodies, add_caps, add_members, add_nodes
 from orbviz.figures.page import PAGE_SUFFIXES, Page, PanelImage, geometry
+from orbviz.levels.sampling import Points
 from orbviz.states.state import State
 from orbviz.surface.colors import SET_PALETTE
 from orbviz.surface.mesh import OrbitalMesh, build_mesh
@@ -68,6 +70,8 @@ class Panel:
     members : list of OrbitalMesh
         A set drawn in this one panel, each member in its own colour (then ``mesh`` is the
         first member's).
+    cloud, volume : Points or pyvista.ImageData, optional
+        Dots or a translucent density drawn instead of the surface (the ``style`` option).
     overlays : dict
         Actor names by kind (``radial_nodes``, ``angular_nodes``, ``outer``, ``caps``,
         ``axis_lines``, ``members``) while the panel is shown.
@@ -79,6 +83,8 @@ class Panel:
     outer: OrbitalMesh | None = None
     members: list[OrbitalMesh] = field(default_factory=list)
     overlays: dict[str, list[str]] = field(default_factory=dict)
+    cloud: Points | None = None
+    volume: Any = None
 
     @property
     def shown(self) -> list[OrbitalMesh]:
@@ -197,13 +203,17 @@ class Figure:
         self._hide()
         panel, prefix = self.panels[k], f"p{k}-"
         options, plotter = self.options, self.plotter
-        if panel.members:
+        if panel.cloud is not None:
+            panel.overlays["cloud"] = add_cloud(plotter, options, panel.cloud, prefix=prefix)
+        elif panel.volume is not None:
+            panel.overlays["volume"] = add_volume(plotter, panel.volume, prefix=prefix)
+        elif panel.members:
             panel.overlays["members"] = add_members(plotter, panel.members, prefix=prefix)
         else:
             panel.overlays["bodies"] = add_bodies(
                 plotter, options, panel.mesh.bodies, prefix=prefix
             )
-        if options.cut:
+        if options.cut and options.style == "surface":
             panel.overlays["caps"] = add_caps(plotter, options, panel.mesh, prefix=prefix)
         if panel.outer is not None:
             panel.overlays["outer"] = add_bodies(
@@ -343,30 +353,6 @@ class Figure:
         return target
 
 
-def _frame(fig: Figure, vertices: np.ndarray) -> float:
-    """Point an orthographic camera at the nucleus; return the half height of every panel."""
-    options = fig.options
-    toward, right, up = camera_axes(fig.view)
-    panel_w, panel_h = geometry(options, *fig.layout).panel
-    aspect = panel_h / panel_w
-    reach = float(np.abs(vertices).max()) if options.extent is None else options.extent
-    if options.extent is None:
-        half_w = np.abs(vertices @ right).max()
-        half_h = np.abs(vertices @ up).max()
-        half_height = 1.2 * max(half_h, half_w * aspect)
-    else:
-        half_height = 1.05 * options.extent * max(1.0, aspect)
-    camera = fig.plotter.camera
-    fig.plotter.enable_parallel_projection()
-    camera.focal_point = (0.0, 0.0, 0.0)
-    camera.position = tuple(toward * 10 * max(reach, 1.0))
-    camera.up = tuple(up)
-    camera.parallel_scale = half_height
-    camera.clipping_range = (1e-3, 40 * max(reach, 1.0))
-    place_lights(fig.plotter, options.lighting, toward, right, up)
-    return float(half_height)
-
-
 def _compose(
     panels: list[Panel], options: FigureOptions, axis_lines: bool, oriented: bool = False
 ) -> Figure:
@@ -387,11 +373,15 @@ def _compose(
     fig = Figure(plotter, panels, options, (cols, rows), axis_lines=axis_lines)
     fig.view = options.view or default_view(panels, oriented)
     try:
-        vertices = np.vstack([b.vertices for p in panels for m in p.shown for b in m.bodies])
+        vertices = np.vstack(
+            [b.vertices for p in panels for m in p.shown for b in m.bodies]
+            + [p.cloud.positions for p in panels if p.cloud is not None]
+            + [r * np.vstack([np.eye(3), -np.eye(3)]) for r in _volume_reach(panels)]
+        )
         if axis_lines:  # frame the axes and their labels too
             tips = AXIS_REACH * 1.12 * fig._reach() * np.eye(3)
             vertices = np.vstack([vertices, tips, -tips])
-        fig.half_height = _frame(fig, vertices)
+        fig.half_height = frame(fig, vertices)
         plotter.enable_anti_aliasing("msaa", multi_samples=8)
         if options.axes and not axis_lines:  # axes through the nucleus make the triad redundant
             plotter.add_axes(  # type: ignore[call-arg]
@@ -401,6 +391,11 @@ def _compose(
         fig.close()
         raise
     return fig
+
+
+def _volume_reach(panels: list[Panel]) -> list[float]:
+    """Radii that hold 99% of each volume panel's density: its glow is framed to them."""
+    return [p.state.radial_quantile(0.99) for p in panels if p.volume is not None]
 
 
 def _outer(state: State, options: FigureOptions, fraction: float) -> OrbitalMesh | None:
@@ -444,7 +439,7 @@ def figure(
     outer = _outer(state, opts, fraction)
     if mesh is None:
         mesh = build_mesh(state, mesh_options(opts), fraction=fraction, half_width=opts.extent)
-    panel = Panel(state, mesh, outer=outer)
+    panel = styled(Panel(state, mesh, outer=outer), opts)
     return _compose([panel], opts, bool(opts.axis_lines))
 
 
@@ -491,7 +486,7 @@ def sheet(
         panels = [Panel(states[0], meshes[0], members=meshes)]
     else:
         panels = [
-            Panel(s, m, _label(k, s, opts.labels), outer=_outer(s, opts, fraction))
+            styled(Panel(s, m, _label(k, s, opts.labels), outer=_outer(s, opts, fraction)), opts)
             for k, (s, m) in enumerate(zip(states, meshes, strict=True))
         ]
     return _compose(panels, opts, axis_lines, oriented)

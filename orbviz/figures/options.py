@@ -2,14 +2,20 @@
 
 from __future__ import annotations
 
-import math
-import re
 from dataclasses import dataclass
 from typing import Any
 
 from orbviz._defaults import DEFAULTS, DISPLAY_UNITS, LIMITS
 from orbviz._options import boolean, choice, integer, number, option, text
 from orbviz.errors import OptionError
+from orbviz.figures.values import (
+    VIEWS,
+    background_colour,
+    grid_layout,
+    pixel_size,
+    print_length,
+    view_angles,
+)
 from orbviz.surface.colors import ColorPair
 from orbviz.surface.options import colors_option, grid_option
 
@@ -29,101 +35,9 @@ __all__ = [
     "view_angles",
 ]
 
-VIEWS = {"iso": (35.0, 25.0), "x": (0.0, 0.0), "y": (90.0, 0.0), "z": (0.0, 90.0)}
 SET_VIEW = (20.0, 55.0)  # d and f sets: lobes between the axes and along them look apart
 LIGHTING = ("soft", "studio", "flat")
 CUTS = ("half", "quarter")
-
-
-def view_angles(raw: Any) -> tuple[float, float]:
-    """``iso``, ``x``, ``y``, ``z``, ``AZ,EL`` in degrees or an (az, el) pair -> (az, el)."""
-    rule = "expected iso, x, y, z or AZ,EL in degrees (elevation -90 to 90)"
-    if isinstance(raw, str) and raw.strip().lower() in VIEWS:
-        return VIEWS[raw.strip().lower()]
-    parts: list[Any] = (
-        raw.split(",")
-        if isinstance(raw, str)
-        else list(raw)
-        if isinstance(raw, (tuple, list))
-        else []
-    )
-    try:
-        az, el = (float(v) for v in parts)
-    except (TypeError, ValueError):
-        raise ValueError(f"{rule}, got {raw!r}") from None
-    if not (math.isfinite(az) and math.isfinite(el) and -90 <= el <= 90 and abs(az) <= 3600):
-        raise ValueError(f"{rule}, got {raw!r}")
-    return az, el
-
-
-def pixel_size(raw: Any) -> tuple[int, int]:
-    """``WIDTHxHEIGHT`` text or a (width, height) pair of pixels, each side in range."""
-    low, high = LIMITS.image_side_min, LIMITS.image_side_max
-    rule = f"expected WIDTHxHEIGHT in pixels like 1600x1200, each side {low} to {high}"
-    if isinstance(raw, str):
-        parts: list[Any] = raw.lower().split("x")
-    elif isinstance(raw, (tuple, list)):
-        parts = list(raw)
-    else:
-        parts = []
-    try:
-        if len(parts) != 2 or any(isinstance(v, (bool, float)) for v in parts):
-            raise ValueError
-        w, h = (int(v) for v in parts)
-    except (TypeError, ValueError):
-        raise ValueError(f"{rule}, got {raw!r}") from None
-    if not (low <= w <= high and low <= h <= high):
-        raise ValueError(f"{rule}, got {raw!r}")
-    return w, h
-
-
-def background_colour(raw: Any) -> str:
-    """Return a colour name or ``#RRGGBB`` (CSS names, as Pillow knows them)."""
-    from PIL import ImageColor
-
-    if isinstance(raw, str) and len(raw) <= 40:
-        try:
-            ImageColor.getrgb(raw.strip())
-            return raw.strip()
-        except ValueError:
-            pass
-    raise ValueError(f"expected a colour name or #RRGGBB, got {raw!r}")
-
-
-_LENGTH = re.compile(r"\s*([0-9]*\.?[0-9]+(?:e[+-]?\d+)?)\s*(mm|cm|in)\s*$", re.I)
-_PER_INCH = {"mm": 25.4, "cm": 2.54, "in": 1.0}
-
-
-def print_length(raw: Any) -> float | None:
-    """Read a printed length, ``85mm``, ``8.5cm`` or ``3.35in`` (a bare number is mm), in mm."""
-    rule = "expected a printed length from 10 mm to 1000 mm, like 85mm, 8.5cm or 3.35in"
-    if raw is None or (isinstance(raw, str) and raw.strip().lower() == "none"):
-        return None
-    if isinstance(raw, (int, float)) and not isinstance(raw, bool):
-        mm = float(raw)
-    elif isinstance(raw, str) and _LENGTH.fullmatch(raw):
-        match = _LENGTH.fullmatch(raw)
-        assert match is not None
-        mm = float(match.group(1)) * 25.4 / _PER_INCH[match.group(2).lower()]
-    else:
-        raise ValueError(f"{rule}, got {raw!r}")
-    if not (math.isfinite(mm) and 10.0 <= mm <= 1000.0):
-        raise ValueError(f"{rule}, got {raw!r}")
-    return mm
-
-
-def grid_layout(raw: Any) -> tuple[int, int] | None:
-    """``COLSxROWS`` (each 1 to 10) -> (columns, rows); None to choose from the panel count."""
-    if raw is None or (isinstance(raw, str) and raw.strip().lower() in ("none", "auto")):
-        return None
-    parts: list[Any] = raw.lower().split("x") if isinstance(raw, str) else list(raw)
-    try:
-        cols, rows = (int(v) for v in parts)
-    except (TypeError, ValueError):
-        cols = rows = 0
-    if not (1 <= cols <= 10 and 1 <= rows <= 10):
-        raise ValueError(f"expected COLSxROWS like 3x2, each 1 to 10, got {raw!r}")
-    return cols, rows
 
 
 def _image_option(default: tuple[int, int], help: str) -> Any:
@@ -193,6 +107,11 @@ class FigureOptions:
         Also draw a translucent surface enclosing this (larger) fraction.
     extent : float or None
         Half-width in bohr of the region shown (and of the sampling box), for comparable sets.
+    style : {"surface", "cloud", "volume"}, default: "surface"
+        The enclosing surface; a cloud of dots drawn exactly as |psi|^2; or a translucent
+        volume of |psi|^2 coloured by phase.
+    points : int, default: 40000
+        Dots of a cloud (1000 to 10^6).
     colors : pair of RGBA
         Phase colours of a real state.
     """
@@ -276,6 +195,16 @@ class FigureOptions:
         unit="bohr",
         metavar="L",
     )
+    style: str = option(
+        "surface",
+        "draw the enclosing surface, a cloud of dots sampled exactly from |psi|^2, or a "
+        "translucent volume of |psi|^2",
+        choice("surface", "cloud", "volume"),
+        metavar="{surface,cloud,volume}",
+    )
+    points: int = option(
+        40_000, "dots of a cloud figure, 1000 to 1000000", integer(1000, 1_000_000), metavar="N"
+    )
     colors: ColorPair = colors_option()
 
     def relations(self) -> list[tuple[str, str]]:
@@ -320,8 +249,9 @@ class PlotOptions:
 
     Attributes
     ----------
-    kind : {"slice", "radial"}
-        A density slice through the nucleus, or the radial distribution.
+    kind : {"slice", "radial", "dots"}
+        A density slice through the nucleus, the radial distribution, or a dot-density
+        figure: exact samples of |psi|^2 projected on the plane (or a slab of it).
     plane : {"xz", "xy", "yz"} or None, default: None
         The slice's plane; None chooses, for each state, the one of the three holding the most
         probability (xz on a tie), so that 3dxy is not sliced along its nodal plane.
@@ -338,13 +268,18 @@ class PlotOptions:
         sizes. Default: 6.4 in wide for a radial plot, 3.4 in per slice panel.
     dpi : int, default: 300
         Resolution of PNG and TIFF output (and of PDF/SVG raster parts), written into the file.
+    slab : float or None, default: None
+        Dots: keep only the samples within half this thickness of the plane, bohr; None
+        projects them all.
+    points : int, default: 20000
+        Dots drawn (1000 to 10^6).
     """
 
     kind: str = option(
         "slice",
-        "a slice through the nucleus, or the radial distribution",
-        choice("slice", "radial"),
-        metavar="{slice,radial}",
+        "a slice through the nucleus, the radial distribution, or dots sampled from |psi|^2",
+        choice("slice", "radial", "dots"),
+        metavar="{slice,radial,dots}",
     )
     plane: str | None = option(
         None,
@@ -383,6 +318,16 @@ class PlotOptions:
     )
     height: float | None = _length_option("printed height, as --width (default: from the width)")
     dpi: int = _dpi_option("resolution of PNG and TIFF output")
+    slab: float | None = option(
+        None,
+        "dots: only those within half this thickness of the plane (default: all, projected)",
+        number(0.0, LIMITS.extent_max, low_open=True, allow_none=True, unit="bohr"),
+        unit="bohr",
+        metavar="T",
+    )
+    points: int = option(
+        20_000, "dots drawn, 1000 to 1000000", integer(1000, 1_000_000), metavar="N"
+    )
 
     def inches(self, natural: tuple[float, float]) -> tuple[float, float]:
         """Return the printed size in inches: the options' width and height, else ``natural``.

@@ -24,13 +24,20 @@ from orbviz._defaults import BOHR_IN_ANGSTROM, DEFAULTS
 from orbviz._options import checked
 from orbviz.figures.options import PlotOptions
 from orbviz.figures.page import PAGE_SUFFIXES, encode_figure
+from orbviz.figures.planes import choose_plane, plane_psi
 from orbviz.levels.isovalue import enclosing_isovalue
 from orbviz.states.state import NodalSurfaces, State
 from orbviz.surface.colors import DEFAULT_PAIR, ColorPair
 
-__all__ = ["RadialData", "SliceData", "plot", "radial_figure", "save_figure", "slice_figure"]
+__all__ = [
+    "RadialData",
+    "SliceData",
+    "plot",
+    "radial_figure",
+    "save_figure",
+    "slice_figure",
+]
 
-PLANES = {"xz": (0, 2), "xy": (0, 1), "yz": (1, 2)}
 NODE_INK = "#141414"  # dark lines on light floors: contrast over 10:1 at the nodes
 _LEVEL_INK = "#141414"
 _CURVES = ["#004488", "#BB5566", "#DDAA33", "#000000", "#009E73", "#56B4E9"]  # Tol, Okabe-Ito
@@ -131,32 +138,14 @@ def _diverging(colors: ColorPair) -> Any:
     return LinearSegmentedColormap.from_list("psi", [negative, (1.0, 1.0, 1.0), positive])
 
 
-def _plane_psi(state: State, plane: str, axis: np.ndarray) -> np.ndarray:
-    u, v = np.meshgrid(axis, axis, indexing="ij")
-    coords = [np.zeros_like(u)] * 3
-    i, j = PLANES[plane]
-    coords[i], coords[j] = u, v
-    return np.asarray(state.psi(*coords, dtype=np.float64))
-
-
-def _best_plane(state: State, axis: np.ndarray) -> str:
-    """Return the plane through the nucleus holding the most probability (xz on a near tie).
-
-    A plane that is a nodal plane of the state (xz for 3dxy) would show nothing.
-    """
-    weights = {p: float(np.sum(np.abs(_plane_psi(state, p, axis)) ** 2)) for p in PLANES}
-    best = max(weights.values())
-    return next(p for p in ("xz", "xy", "yz") if weights[p] >= 0.98 * best)
-
-
 def _slice_data(
     state: State, opts: PlotOptions, fraction: float, points: int, half: float | None
 ) -> SliceData:
     iso = enclosing_isovalue(state, fraction=fraction)
     half = 1.15 * iso.max_radius if half is None else half
     axis = np.linspace(-half, half, points)
-    plane = opts.plane or _best_plane(state, axis[:: max(1, points // 100)])
-    psi = _plane_psi(state, plane, axis)
+    plane = opts.plane or choose_plane(state, axis[:: max(1, points // 100)])
+    psi = plane_psi(state, plane, axis)
     dens = np.abs(psi) ** 2
     signed = psi.real if state.is_real else np.abs(psi) * np.sign(psi.real)
     nodes = state.nodal_surfaces()
@@ -384,10 +373,14 @@ def plot(
     colors: ColorPair = DEFAULT_PAIR,
     labels: Sequence[str] | None = None,
 ) -> tuple[Any, Any]:
-    """Return the plot ``options.kind`` names: a slice or the radial distribution."""
+    """Return the plot ``options.kind`` names: a slice, the radial distribution or dots."""
     opts = checked(options or PlotOptions())
     if opts.kind == "radial":
         return radial_figure(state, opts, labels=labels)
+    if opts.kind == "dots":
+        from orbviz.figures.dots import dots_figure
+
+        return dots_figure(state, opts, colors=colors)
     return slice_figure(state, opts, fraction=fraction, colors=colors)
 
 
@@ -406,7 +399,7 @@ def describe_plot(data: SliceData | RadialData | Sequence[Any], units: str) -> s
                 + (f", radial nodes at {nodes} {name}" if nodes else ", no radial node")
                 + "."
             )
-        elif isinstance(d, SliceData):
+        elif hasattr(d, "describe"):  # a slice, or the dots of a dot-density figure
             parts.append(d.describe(units))
     return " ".join(parts)
 

@@ -11,6 +11,7 @@ from typing import Any
 
 from orbviz import __version__
 from orbviz.figures.options import AnimationOptions, FigureOptions, PlotOptions
+from orbviz.models.engraving import SampleOptions
 from orbviz.models.options import ModelOptions
 from orbviz.pages.options import PageOptions
 from orbviz.states.physics import Physics
@@ -23,6 +24,8 @@ __all__ = [
     "MODEL_OUTPUTS",
     "OUTPUTS",
     "PAGE_OUTPUTS",
+    "POINT_OUTPUTS",
+    "STYLE_OUTPUTS",
     "PLOT_OUTPUTS",
     "SHEET_OUTPUTS",
     "TITLE_FIELDS",
@@ -32,7 +35,12 @@ __all__ = [
 ]
 
 FIGURE_OUTPUTS = ("png", "tiff", "pdf", "svg")  # the 3D figure
-PLOT_OUTPUTS = tuple(f"{kind}.{fmt}" for kind in ("slice", "radial") for fmt in FIGURE_OUTPUTS)
+PLOT_OUTPUTS = tuple(
+    f"{kind}.{fmt}" for kind in ("slice", "radial", "dots") for fmt in FIGURE_OUTPUTS
+)
+# the 3D figure drawn as a cloud of dots or a translucent volume instead of the surface
+STYLE_OUTPUTS = tuple(f"{style}.{fmt}" for style in ("cloud", "volume") for fmt in FIGURE_OUTPUTS)
+POINT_OUTPUTS = ("points.ply", "points.csv", "points.xyz", "points.npy")  # orbviz sample
 ANIMATION_OUTPUTS = ("gif", "mp4")
 MESH_OUTPUTS = ("glb", "gltf", "obj", "stl", "ply", "3mf")
 MODEL_OUTPUTS = ("model.stl", "model.3mf")
@@ -44,9 +52,11 @@ OUTPUTS = (
     *PLOT_OUTPUTS,
     *ANIMATION_OUTPUTS,
     *PAGE_OUTPUTS,
+    *STYLE_OUTPUTS,
+    *POINT_OUTPUTS,
 )
 # what a [[sheet]] of several orbitals makes
-SHEET_OUTPUTS = (*FIGURE_OUTPUTS, *PLOT_OUTPUTS, *PAGE_OUTPUTS)
+SHEET_OUTPUTS = (*FIGURE_OUTPUTS, *PLOT_OUTPUTS, *PAGE_OUTPUTS, *STYLE_OUTPUTS)
 _COMPANIONS = {"obj": ["mtl"], "gltf": ["bin"]}
 
 
@@ -108,6 +118,8 @@ class Item:
         The animation's options (the ``animate`` table).
     page : PageOptions
         The interactive page's options (the ``page`` table).
+    sample : SampleOptions
+        The point cloud's options (the ``sample`` table).
     members : tuple of str
         A ``[[sheet]]``'s specs, in panel order (sets such as ``3d`` allowed); empty for one
         orbital. ``spec`` then joins them with spaces.
@@ -125,6 +137,7 @@ class Item:
     animation: AnimationOptions = field(default_factory=AnimationOptions)
     members: tuple[str, ...] = ()
     page: PageOptions = field(default_factory=PageOptions)
+    sample: SampleOptions = field(default_factory=SampleOptions)
 
     def title(self, label: str) -> str | None:
         """Return the title with its placeholders filled in (None: no title is drawn)."""
@@ -152,7 +165,7 @@ class Item:
         ``NAME-radial.EXT``, or to ``NAME.EXT`` when the name already ends in that word (no
         doubled suffix).
         """
-        if kind in MODEL_OUTPUTS or kind in PLOT_OUTPUTS:
+        if kind in MODEL_OUTPUTS or kind in PLOT_OUTPUTS or kind in STYLE_OUTPUTS + POINT_OUTPUTS:
             word, fmt = kind.split(".")
             stem = self.name if self.name.endswith(f"-{word}") else f"{self.name}-{word}"
             return f"{stem}.{fmt}"
@@ -185,6 +198,9 @@ class Item:
             else None,
             "page": dataclasses.asdict(self.page)
             if any(o in PAGE_OUTPUTS for o in self.outputs)
+            else None,
+            "sample": dataclasses.asdict(self.sample)
+            if any(o in POINT_OUTPUTS for o in self.outputs)
             else None,
             "members": list(self.members),
             "inputs": [list(i) for i in self.inputs],

@@ -21,6 +21,7 @@ from orbviz._defaults import LIMITS
 from orbviz._options import build, external_keys
 from orbviz.errors import OptionError, OrbvizError, SceneError
 from orbviz.figures.options import AnimationOptions, FigureOptions, PlotOptions, page_layout
+from orbviz.models.engraving import SampleOptions
 from orbviz.models.options import ModelOptions
 from orbviz.pages.options import PageOptions, arrangement_of
 from orbviz.scenes.items import (
@@ -53,7 +54,15 @@ _MODEL = {v: k for k, v in external_keys(ModelOptions).items() if v not in _SHAR
 _PLOT = {v: k for k, v in external_keys(PlotOptions).items() if v != "kind"}  # the output names it
 _ANIMATE = {v: k for k, v in external_keys(AnimationOptions).items() if v != "colors"}
 _PAGE = {v: k for k, v in external_keys(PageOptions).items()}
-_TABLES = {"render": _RENDER, "model": _MODEL, "plot": _PLOT, "animate": _ANIMATE, "page": _PAGE}
+_SAMPLE = {v: k for k, v in external_keys(SampleOptions).items()}
+_TABLES = {
+    "render": _RENDER,
+    "model": _MODEL,
+    "plot": _PLOT,
+    "animate": _ANIMATE,
+    "page": _PAGE,
+    "sample": _SAMPLE,
+}
 _COMMON = set(_PHYSICS) | _SHARED | {"outputs", "atom"}
 _SHEET_MAX = 24  # panels of one sheet
 # files of the output folder that belong to the batch itself
@@ -229,6 +238,7 @@ def _jobs(values: dict[str, Any], where: _Where) -> dict[str, Any]:
             "animate.",
         ),
         "page": _options(PageOptions, values["page"], _PAGE, where, "page."),
+        "sample": _options(SampleOptions, values["sample"], _SAMPLE, where, "sample."),
     }
 
 

@@ -19,6 +19,8 @@ from orbviz.scenes.items import (
     MODEL_OUTPUTS,
     PAGE_OUTPUTS,
     PLOT_OUTPUTS,
+    POINT_OUTPUTS,
+    STYLE_OUTPUTS,
     Item,
 )
 from orbviz.states.state import State
@@ -98,7 +100,46 @@ class _Plots:
 
 def _three_d(item: Item) -> bool:
     """Tell whether the item makes anything from the surface (figure, meshes, model)."""
-    return bool(_wanted(item, FIGURE_OUTPUTS + MESH_OUTPUTS + MODEL_OUTPUTS + PAGE_OUTPUTS))
+    made = FIGURE_OUTPUTS + MESH_OUTPUTS + MODEL_OUTPUTS + PAGE_OUTPUTS + STYLE_OUTPUTS
+    return bool(_wanted(item, made + POINT_OUTPUTS))
+
+
+def _styles(item: Item, states: list[State], looks: Any, out: Path) -> dict[Path, bytes]:
+    """Return the item's cloud and volume figures (one panel, or a sheet of several states)."""
+    from orbviz.figures.figure import figure, sheet
+    from orbviz.states.make import oriented_set
+
+    files = {}
+    oriented = any(oriented_set(spec) for spec in item.members)
+    for kind in _wanted(item, STYLE_OUTPUTS):
+        style, fmt = kind.split(".")
+        shown = dataclasses.replace(looks, style=style)
+        fraction = item.physics.fraction
+        made = (
+            figure(states[0], shown, fraction=fraction)
+            if len(states) == 1 and not item.members
+            else sheet(states, shown, fraction=fraction, oriented=oriented)
+        )
+        with made as fig:
+            files[out / item.file_of(kind)] = fig.encode(f".{fmt}")
+    return files
+
+
+def _points(item: Item, state: State, out: Path) -> dict[Path, bytes]:
+    """Return the item's point clouds (orbviz sample), one draw for every format asked."""
+    kinds = _wanted(item, POINT_OUTPUTS)
+    if not kinds:
+        return {}
+    from orbviz.export.points import encode_points
+    from orbviz.levels.sampling import sample
+    from orbviz.models.engraving import prepare
+
+    drawn = sample(state, item.sample.points, seed=item.sample.seed)
+    points, units, _ = prepare(drawn, state, item.sample)
+    files: dict[Path, bytes] = {}
+    for kind in kinds:
+        files.update(encode_points(points, out / item.file_of(kind), units))
+    return files
 
 
 def _page(item: Item, states: list[State], title: str | None, out: Path) -> dict[Path, bytes]:
@@ -164,6 +205,8 @@ def _surface_files(item: Item, state: State, out: Path) -> tuple[dict[Path, byte
     figures = _wanted(item, FIGURE_OUTPUTS)
     looks = dataclasses.replace(item.figure, title=item.title(state.label))
     files.update(_page(item, [state], looks.title, out))
+    files.update(_styles(item, [state], looks, out))
+    files.update(_points(item, state, out))
     if not figures:
         looks = dataclasses.replace(looks, size=THUMBNAIL, scale=1.0, width=None)
     with figure(state, looks, fraction=fraction, mesh=mesh) as fig:
@@ -232,6 +275,7 @@ def _sheet_files(item: Item, out: Path) -> tuple[dict[Path, bytes], dict[str, An
     figures = _wanted(item, FIGURE_OUTPUTS)
     looks = dataclasses.replace(item.figure, title=item.title(item.spec))
     files.update(_page(item, states, looks.title, out))
+    files.update(_styles(item, states, looks, out))
     if not figures and plots.kinds:  # plots and no figure: the thumbnail is the first plot
         files[out / "thumbs" / f"{item.name}.png"], numbers["alt_text"] = plots.thumbnail()
         return files, numbers

@@ -1,0 +1,131 @@
+"""The cloud and volume styles of a 3D figure: dots drawn as |psi|^2, or a glowing density.
+
+``cloud``: exact samples of |psi|^2 (:mod:`orbviz.levels.sampling`, a fixed seed so a figure
+is reproducible) drawn as small shaded spheres in the phase colours. The rare far samples
+beyond the 99.5% radius are left out, so they do not set the frame. ``volume``: |psi|^2 on a
+grid rendered as a translucent volume, coloured by the phase, opaque where the density
+reaches the figure's isovalue (through VTK's volume mapper, off-screen).
+"""
+
+from __future__ import annotations
+
+import dataclasses
+from typing import TYPE_CHECKING, Any
+
+import numpy as np
+
+from orbviz.figures.options import FigureOptions
+from orbviz.levels.sampling import Points, sample
+from orbviz.states.state import State
+
+if TYPE_CHECKING:
+    from orbviz.figures.figure import Panel
+
+__all__ = ["add_cloud", "add_volume", "styled"]
+
+_REACH = 0.995  # radial quantile beyond which cloud dots are left out
+_VOLUME_GRID = 112  # samples per axis of a volume figure
+_SEED = 20261202  # figures are reproducible: the same dots every time
+# each sample's alpha: 0.012 at the isovalue, growing as sqrt(density) up to 0.1; about 30
+# samples across a lobe then add up to an opacity near 0.8 (VTK composites RGBA volumes
+# sample by sample)
+_AT_LEVEL, _CAP = 0.06, 0.5
+
+
+def cloud_points(state: State, count: int) -> Points:
+    """Draw a figure's dots: ``count`` exact samples, the far 0.5% left out."""
+    points = sample(state, count, seed=_SEED)
+    near = np.linalg.norm(points.positions, axis=1) <= state.radial_quantile(_REACH)
+    return dataclasses.replace(points, positions=points.positions[near], phase=points.phase[near])
+
+
+def volume_grid(state: State, level: float, options: FigureOptions) -> Any:
+    """Return |psi|^2 on a grid as a ``pyvista.ImageData`` with RGBA point colours.
+
+    The colour is the phase colour; the alpha grows as the square root of the density, a
+    quarter at the figure's isovalue and full at 16 times it, so an s state's outer shells
+    show beside its dense core.
+    """
+    import pyvista
+
+    from orbviz.surface.colors import phase_colors, sign_colors
+
+    half = 1.05 * state.radial_quantile(_REACH)
+    axis = np.linspace(-half, half, _VOLUME_GRID, dtype=np.float32)
+    x, y, z = np.meshgrid(axis, axis, axis, indexing="ij")
+    psi = state.psi(x.ravel(order="F"), y.ravel(order="F"), z.ravel(order="F"))
+    density = np.abs(psi) ** 2
+    rgba = sign_colors(psi, options.colors) if state.is_real else phase_colors(np.angle(psi))
+    alpha = np.clip(_AT_LEVEL * np.sqrt(density / level), 0.0, _CAP)
+    rgba[:, 3] = np.round(255 * alpha).astype(np.uint8)
+    xyz = np.column_stack([x.ravel(order="F"), y.ravel(order="F"), z.ravel(order="F")])
+    rgba[~_cut(xyz, options.cut), 3] = 0  # a cutaway empties its part of the volume
+    grid = pyvista.ImageData(
+        dimensions=(_VOLUME_GRID,) * 3,
+        spacing=(float(axis[1] - axis[0]),) * 3,
+        origin=(float(axis[0]),) * 3,
+    )
+    grid.point_data["RGBA"] = rgba
+    return grid
+
+
+def styled(panel: Panel, options: FigureOptions) -> Panel:
+    """Return the panel with its dots or its volume, as the figure's style asks."""
+    if options.style == "cloud":
+        return dataclasses.replace(panel, cloud=cloud_points(panel.state, options.points))
+    if options.style == "volume":
+        grid = volume_grid(panel.state, panel.mesh.isovalue.level, options)
+        return dataclasses.replace(panel, volume=grid)
+    return panel
+
+
+def _cut(positions: np.ndarray, cut: str | None) -> np.ndarray:
+    """Mask of the dots kept by a cutaway (x > 0, or x > 0 and y > 0, taken away)."""
+    if cut == "half":
+        return positions[:, 0] <= 0
+    if cut == "quarter":
+        return ~((positions[:, 0] > 0) & (positions[:, 1] > 0))
+    return np.ones(len(positions), dtype=bool)
+
+
+def add_cloud(
+    plotter: Any, options: FigureOptions, points: Points, *, prefix: str = ""
+) -> list[str]:
+    """Add the dots, in the phase colours, as small lit spheres (sized to the window)."""
+    from orbviz.surface.colors import phase_colors, sign_colors
+
+    keep = _cut(points.positions, options.cut)
+    colours = (
+        sign_colors(points.phase[keep], options.colors)
+        if points.real
+        else phase_colors(points.phase[keep])
+    )
+    size = max(2.0, plotter.window_size[1] / 260)
+    name = f"{prefix}cloud"
+    plotter.add_points(
+        points.positions[keep],
+        scalars=colours[:, :3],
+        rgb=True,
+        render_points_as_spheres=True,
+        point_size=size,
+        ambient=0.3,
+        diffuse=0.8,
+        name=name,
+        render=False,
+    )
+    return [name]
+
+
+def add_volume(plotter: Any, volume: Any, *, prefix: str = "") -> list[str]:
+    """Add the translucent density, its colour and opacity from its RGBA samples."""
+    name = f"{prefix}volume"
+    plotter.add_volume(
+        volume,
+        scalars="RGBA",
+        # full alpha accumulates to opacity 1 - 1/e over half the box side
+        opacity_unit_distance=float(volume.spacing[0]) * volume.dimensions[0] / 2,
+        show_scalar_bar=False,
+        name=name,
+        render=False,
+    )
+    return [name]
