@@ -22,6 +22,7 @@ from orbviz.errors import OptionError
 
 __all__ = [
     "Rule",
+    "shown",
     "boolean",
     "build",
     "checked",
@@ -170,8 +171,10 @@ def checked(obj: T, *, key: Callable[[str], str] = str) -> T:
 
 
 # ------------------------------------------------------------------------ converters
-def _show(raw: Any) -> str:
-    return repr(raw) if isinstance(raw, str) else str(raw)
+def shown(raw: Any) -> str:
+    """Return a value as a message shows it: quoted text, cut short if it is long."""
+    words = repr(raw) if isinstance(raw, str) else str(raw)
+    return words if len(words) <= 80 else f"{words[:60]}... ({len(words)} characters)"
 
 
 def _nullable(allow_none: bool, convert: Convert) -> Convert:
@@ -199,14 +202,14 @@ def number(
 
     def read(raw: Any) -> float:
         if isinstance(raw, bool) or not isinstance(raw, (int, float, str)):
-            raise ValueError(f"expected a number {span}, got {_show(raw)}")
+            raise ValueError(f"expected a number {span}, got {shown(raw)}")
         try:
             value = float(raw)
         except ValueError:
-            raise ValueError(f"expected a number {span}, got {_show(raw)}") from None
+            raise ValueError(f"expected a number {span}, got {shown(raw)}") from None
         inside = (low < value if low_open else low <= value) and value <= high
         if not (math.isfinite(value) and inside):
-            raise ValueError(f"expected a number {span}, got {_show(raw)}")
+            raise ValueError(f"expected a number {span}, got {shown(raw)}")
         return value
 
     return _nullable(allow_none, read)
@@ -225,7 +228,7 @@ def integer(low: int, high: int, *, allow_none: bool = False) -> Convert:
         elif isinstance(raw, float) and raw.is_integer():
             value = int(raw)
         if isinstance(value, bool) or not isinstance(value, int) or not low <= value <= high:
-            raise ValueError(f"expected a whole number from {low} to {high}, got {_show(raw)}")
+            raise ValueError(f"expected a whole number from {low} to {high}, got {shown(raw)}")
         return value
 
     return _nullable(allow_none, read)
@@ -240,7 +243,7 @@ def boolean() -> Convert:
             return raw
         if isinstance(raw, str) and raw.strip().lower() in words:
             return words[raw.strip().lower()]
-        raise ValueError(f"expected true or false, got {_show(raw)}")
+        raise ValueError(f"expected true or false, got {shown(raw)}")
 
     return read
 
@@ -253,8 +256,10 @@ def choice(*values: str, allow_none: bool = False) -> Convert:
     def read(raw: Any) -> str:
         if isinstance(raw, str) and raw.strip().lower() in values:
             return raw.strip().lower()
-        raise ValueError(f"expected {listed}, got {_show(raw)}")
+        raise ValueError(f"expected {listed}, got {shown(raw)}")
 
+    if "none" in values:  # "none" is one of the choices here, not a missing value
+        return read
     return _nullable(allow_none, read)
 
 
@@ -266,7 +271,7 @@ def text(max_chars: int, *, allow_none: bool = False, single_line: bool = True) 
 
     def read(raw: Any) -> str:
         if not isinstance(raw, str):
-            raise ValueError(f"expected text, got {_show(raw)}")
+            raise ValueError(f"expected text, got {shown(raw)}")
         if len(raw) > max_chars:
             raise ValueError(f"expected at most {max_chars} characters, got {len(raw)}")
         if single_line and _CONTROL.search(raw):

@@ -418,6 +418,7 @@ def test_a_display_size_sets_the_longest_side_in_metres(real_mesh, tmp_path, suf
         (["--display-size", "500m", "-o", "o.glb"], "from 1 mm to 100 m, like 0.2m"),
         (["--display-size", "2 furlongs", "-o", "o.glb"], "got '2 furlongs'"),
         (["--display-size", "0.5mm", "-o", "o.glb"], "from 1 mm to 100 m"),
+        (["--display-size", "1m", "--units", "angstrom", "-o", "o.glb"], "or --units, not both"),
     ],
 )
 def test_bad_display_sizes_are_refused_before_any_work(tmp_path, capsys, argv, fragment):

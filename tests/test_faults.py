@@ -332,6 +332,45 @@ def test_next_write_removes_temporaries_of_dead_writers_only(tmp_path):
     assert _glb_whole((tmp_path / "big.glb").read_bytes())
 
 
+def test_a_system_refusal_while_writing_is_one_line_and_keeps_the_old_file(tmp_path):
+    # write(2): EFBIG when a file would pass the process's size limit (RLIMIT_FSIZE,
+    # setrlimit(2)); Python ignores SIGXFSZ, so the write fails with an OSError
+    import resource
+
+    target = tmp_path / "keep.glb"
+    target.write_bytes(b"old")
+
+    def limit() -> None:
+        resource.setrlimit(resource.RLIMIT_FSIZE, (20_000, 20_000))
+
+    run = subprocess.run(
+        [*ORBVIZ, "mesh", "2pz", "--grid", "48", "-o", str(target)],
+        env=_env(),
+        capture_output=True,
+        timeout=300,
+        preexec_fn=limit,
+    )
+    err = run.stderr.decode()
+    assert run.returncode == 2 and err.count("\n") == 1, err
+    assert "cannot write" in err and "File too large" in err and "internal error" not in err
+    assert target.read_bytes() == b"old"
+    assert [p.name for p in tmp_path.iterdir()] == ["keep.glb"]  # no temporary left
+
+
+def test_a_name_near_the_limit_still_writes(tmp_path):
+    # NAME_MAX is 255 bytes (POSIX limits.h); temporaries add a pid and a random part, so
+    # their stem is cut to 120 bytes and a 250-byte name still writes
+    target = tmp_path / ("b" * 246 + ".glb")
+    run = subprocess.run(
+        [*ORBVIZ, "mesh", "2pz", "--grid", "32", "-o", str(target)],
+        env=_env(),
+        capture_output=True,
+        timeout=300,
+    )
+    assert run.returncode == 0, run.stderr.decode()
+    assert _glb_whole(target.read_bytes()) and len(list(tmp_path.iterdir())) == 1
+
+
 # --- 2. A closed pipe -------------------------------------------------------------------------
 
 

@@ -138,7 +138,7 @@ def test_the_numbers_on_a_page_match_closed_forms(pages):
         # (browsers keep about 16 contexts a page: common practice, no source); a page holds
         # at most 24 orbitals, as a sheet
         (["4f", "3d", "--arrangement", "grid"], "a grid page holds at most 8 orbitals"),
-        (["4f", "5f", "6f", "7f"], "--arrangement: a page holds at most 24 orbitals, not 28"),
+        (["4f", "5f", "6f", "7f"], "orbviz: error: a page holds at most 24 orbitals, not 28"),
     ],
 )
 def test_bad_page_options_are_refused_in_one_line(tmp_path, capsys, argv, fragment):
@@ -256,6 +256,13 @@ def test_a_page_draws_offline_switches_levels_and_turns(browser, pages):
         session.page.select_option("#cut", "half")
         assert np.abs(with_nodes - plain).mean() > 0.5
         assert np.abs(session.canvas() - with_nodes).mean() > 0.5
+        # axes through the nucleus: the checkbox and the a key; c cycles the cutaways
+        before_axes = session.canvas()
+        session.page.keyboard.press("a")
+        assert np.abs(session.canvas() - before_axes).mean() > 0.2
+        assert session.page.is_checked("#axes")
+        session.page.keyboard.press("c")
+        assert session.page.input_value("#cut") == "quarter"
         # the canvas carries the alt text of the level shown
         label = session.page.locator("#panel-0 canvas").get_attribute("aria-label")
         assert "encloses 99% of the probability" in label
@@ -351,3 +358,75 @@ def test_the_docs_notebook_runs_and_shows_pages_and_stills():
     for output in displays:
         assert output["data"]["text/html"].startswith("<iframe srcdoc=")
         assert base64.b64decode(output["data"]["image/png"])[:8] == b"\x89PNG\r\n\x1a\n"
+
+
+# ------------------------------------------------------------------------- what a page opens with
+
+
+def test_the_phase_wheel_runs_anticlockwise_from_zero_at_the_right(tmp_path):
+    # the key's convention (as the figures' wheel): phase 0 at the right, pi/2 at the top,
+    # growing anticlockwise. A CSS conic gradient starts at the top and runs clockwise
+    # (CSS Images Module Level 4, conic-gradient), so its stops must run pi/2, 0, -pi/2, pi.
+    from orbviz.surface.colors import phase_colors
+
+    data = _data(_page(tmp_path, "w", "3,2,1", *SMALL))
+    hexes = data["wheel"]
+    assert len(hexes) == 25 and hexes[0] == hexes[-1]
+    colour = lambda a: "#{:02X}{:02X}{:02X}".format(*phase_colors(np.array([a]))[0][:3])  # noqa: E731
+    assert hexes[0] == colour(math.pi / 2)  # top
+    assert hexes[6] == colour(0.0)  # right (90 degrees clockwise from the top)
+    assert hexes[12] == colour(-math.pi / 2)  # bottom
+    assert hexes[18] in (colour(math.pi), colour(-math.pi))  # left
+
+
+def test_a_page_opens_as_the_figure_options_ask_and_names_the_rest(tmp_path, capsys):
+    argv = ["2p", *SMALL, "--nodes", "--cut", "quarter", "--no-key", "--size", "100x100"]
+    data = _data(_page(tmp_path, "s", *argv))
+    start = data["start"]
+    assert start["nodes"] and start["cut"] == "quarter" and not start["key"]
+    assert start["axes"]  # a set that differs by orientation opens with its axes
+    assert "--size applies to still figures; a page does not use them" in capsys.readouterr().err
+    page = (tmp_path / "s.html").read_text(encoding="utf-8")
+    assert '<p class="key" hidden>' in page and '<option value="quarter" selected>' in page
+
+
+def test_page_options_on_a_still_image_are_named_as_unused(tmp_path, capsys):
+    assert main(["render", "2pz", *SMALL, "--levels", "0.5", "--size", "200x150",
+                 "-o", str(tmp_path / "x.png")]) == 0  # fmt: skip
+    assert "--levels applies to .html pages" in capsys.readouterr().err
+
+
+def test_the_numbers_name_the_charge_and_the_potential(tmp_path):
+    data = _data(_page(tmp_path, "z", "2pz", *SMALL, "--Z", "2", "--levels", "0.5"))
+    numbers = data["panels"][0]["levels"][0]["numbers"]
+    # hydrogen-like, Z = 2, n = 2: E = -Z^2 / (2 n^2) = -0.5 hartree (closed form)
+    assert "Z = 2" in numbers and "E = -0.5 hartree" in numbers
+    screened = _data(_page(tmp_path, "na", "Na:3s", *SMALL, "--levels", "0.5"))
+    assert "Na: Z_eff = " in screened["panels"][0]["levels"][0]["numbers"]
+
+
+def test_a_hybrid_page_does_not_open_looking_down_its_lobe(tmp_path):
+    # 2sp3[1]'s large lobe points along (1, 1, 1)/sqrt(3) (the tetrahedral direction); the
+    # iso camera (azimuth 35, elevation 25) is 10 degrees from it
+    data = _data(_page(tmp_path, "h", "2sp3[1]", *SMALL, "--levels", "0.5"))
+    az, el = (math.radians(v) for v in data["view"])
+    camera = np.array([math.cos(el) * math.cos(az), math.cos(el) * math.sin(az), math.sin(el)])
+    lobe = np.ones(3) / math.sqrt(3)
+    assert math.degrees(math.acos(abs(camera @ lobe))) >= 30
+
+
+def test_more_than_five_levels_with_the_fraction_are_refused(tmp_path, capsys):
+    status = main(["render", "2pz", *SMALL, "--levels", "0.5,0.6,0.7,0.8,0.95",
+                   "-o", str(tmp_path / "x.html")])  # fmt: skip
+    err = capsys.readouterr().err
+    assert status == 2 and "--levels: 6 levels with the fraction 0.9 added; at most 5" in err
+    # six entries are refused before repeats are merged (30,000 copies of 0.5 were accepted)
+    out = str(tmp_path / "y.html")
+    status = main(["render", "2pz", "--levels", ",".join(["0.5"] * 6), "-o", out])
+    assert status == 2 and "--levels: expected 1 to 5 fractions" in capsys.readouterr().err
+
+
+def test_labels_none_draws_no_panel_labels(tmp_path):
+    # --labels takes none as one of its choices (it used to be read as a missing value)
+    assert main(["render", "2pz", "2px", *SMALL, "--labels", "none", "--size", "200x150",
+                 "-o", str(tmp_path / "l.png")]) == 0  # fmt: skip

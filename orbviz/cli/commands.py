@@ -133,7 +133,8 @@ def render(args: argparse.Namespace) -> int:
     _keep(args, [target])
     states, oriented = _states(args.spec, physics)
     if target.suffix.lower() == ".html":
-        return _page(args, states, options, physics, target)
+        return _page(args, states, options, physics, target, oriented)
+    _page_options_unused(args)
     if len(states) == 1 and not oriented:
         made = figure(states[0], options, fraction=physics.fraction)
     else:
@@ -153,16 +154,31 @@ def render(args: argparse.Namespace) -> int:
     return 0
 
 
+def _page_options_unused(args: argparse.Namespace) -> None:
+    """Note page options given for a still image, which does not use them."""
+    given = [k.split(".", 1)[1] for k in vars(args) if k.startswith("PageOptions.")]
+    if given:
+        flags = ", ".join(f"--{'page-faces' if g == 'faces' else g}" for g in given)
+        verb = "applies" if len(given) == 1 else "apply"
+        note(f"{flags} {verb} to .html pages; this image does not use them")
+
+
 def _page(
-    args: argparse.Namespace, states: list[Any], options: Any, physics: Physics, target: Path
+    args: argparse.Namespace,
+    states: list[Any],
+    options: Any,
+    physics: Physics,
+    target: Path,
+    oriented: bool,
 ) -> int:
     """Write an interactive page of the states: one offline HTML file."""
     from orbviz.export import write_files
-    from orbviz.pages.build import page_data, page_html
+    from orbviz.pages.build import ignored_options, page_data, page_html
     from orbviz.pages.options import PageOptions
 
     page = options_from(args, PageOptions)
-    data = page_data(states, options, page, fraction=physics.fraction)
+    unused = ignored_options(options)
+    data = page_data(states, options, page, fraction=physics.fraction, oriented=oriented)
     body = page_html(data)
     write_files({target: body})
     levels = ", ".join(f"{100 * f:g}%" for f in data["levels"])
@@ -172,6 +188,10 @@ def _page(
         print(" ".join(p["alt"] for p in data["panels"]))
     for text in dict.fromkeys(n for p in data["panels"] for n in p["notes"]):
         note(text)
+    if unused:
+        flags = ", ".join("--" + name.replace("_", "-") for name in unused)
+        verb = "applies" if len(unused) == 1 else "apply"
+        note(f"{flags} {verb} to still figures; a page does not use them")
     return 0
 
 

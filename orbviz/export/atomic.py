@@ -15,6 +15,7 @@ is gone (a killed run) are removed on the next write to the same path.
 from __future__ import annotations
 
 import contextlib
+import glob
 import os
 import shutil
 import tempfile
@@ -37,11 +38,20 @@ def _alive(pid: int) -> bool:
     return True
 
 
+def _stem(target: Path) -> str:
+    """Return the target's name as its temporaries begin it, cut to 120 bytes.
+
+    So ``.STEM.PID.RANDOM.part`` stays within the 255 bytes a file name may have.
+    """
+    return target.name.encode()[:120].decode(errors="ignore")
+
+
 def _clean_stale(target: Path) -> None:
     """Remove temporaries of ``target`` left by processes that no longer run."""
+    stem = _stem(target)
     with contextlib.suppress(OSError):
-        for leftover in target.parent.glob(f".{target.name}.*.part*"):
-            pid = leftover.name[len(target.name) + 2 :].split(".", 1)[0]
+        for leftover in target.parent.glob(f".{glob.escape(stem)}.*.part*"):
+            pid = leftover.name[len(stem) + 2 :].split(".", 1)[0]
             if pid.isdigit() and int(pid) != os.getpid() and not _alive(int(pid)):
                 if leftover.is_dir():
                     shutil.rmtree(leftover, ignore_errors=True)
@@ -88,7 +98,7 @@ def check_targets(targets: Sequence[Path], *, folders: bool = False, clobber: bo
 
 
 def _temporary(target: Path, *, folder: bool = False) -> Path:
-    prefix = f".{target.name}.{os.getpid()}."
+    prefix = f".{_stem(target)}.{os.getpid()}."
     if folder:
         return Path(tempfile.mkdtemp(prefix=prefix, suffix=".part", dir=target.parent))
     handle, name = tempfile.mkstemp(prefix=prefix, suffix=".part", dir=target.parent)
@@ -163,9 +173,17 @@ def atomic_paths(*targets: Path) -> Iterator[list[Path]]:
         for temp in temps:
             os.chmod(temp, 0o644)
         _commit(temps, targets_)
+    except OSError as error:  # a full disk, a file too large, a name the system refuses
+        raise _output_error(error, targets_) from None
     finally:
         for temp in temps:
             _discard(temp)
+
+
+def _output_error(error: OSError, targets: Sequence[Path]) -> OutputError:
+    """Return a one-line refusal naming the file a system error stopped."""
+    name = str(targets[0]) if len(targets) == 1 else ", ".join(str(t) for t in targets)
+    return OutputError(f"cannot write {name!r}: {error.strerror or error}")
 
 
 @contextlib.contextmanager
@@ -178,10 +196,15 @@ def atomic_folder(target: Path) -> Iterator[Path]:
     target = Path(target)
     check_targets([target], folders=True)
     _clean_stale(target)
-    temp = _temporary(target, folder=True)
+    try:
+        temp = _temporary(target, folder=True)
+    except OSError as error:
+        raise _output_error(error, [target]) from None
     try:
         yield temp
         os.chmod(temp, 0o755)
         _commit([temp], [target])
+    except OSError as error:
+        raise _output_error(error, [target]) from None
     finally:
         _discard(temp)

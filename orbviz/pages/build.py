@@ -20,14 +20,15 @@ from typing import Any
 import numpy as np
 
 from orbviz._defaults import BOHR_IN_ANGSTROM
-from orbviz.figures.options import VIEWS, FigureOptions
+from orbviz.errors import OptionError, OrbvizError, ParameterError
+from orbviz.figures.options import FigureOptions
 from orbviz.states.state import State
 from orbviz.surface.mesh import OrbitalMesh, build_mesh
 from orbviz.surface.options import MeshOptions
 
-from .options import PageOptions, arrangement_of
+from .options import MAX_LEVELS, PageOptions, arrangement_of
 
-__all__ = ["page_data", "page_html"]
+__all__ = ["ignored_options", "page_data", "page_html"]
 
 _UNIT_LABEL = {"angstrom": "Å", "bohr": "bohr"}
 _FACES_PER_LEVEL_MAX = 60_000  # a page's weight: every level of every panel is inlined
@@ -35,7 +36,13 @@ _FACES_PER_LEVEL_MAX = 60_000  # a page's weight: every level of every panel is 
 
 def _levels(options: PageOptions, fraction: float) -> list[float]:
     """Return the page's fractions, the figure's own among them, in increasing order."""
-    return sorted({*options.levels, round(fraction, 6)})
+    levels = sorted({*options.levels, round(fraction, 6)})
+    if len(levels) > MAX_LEVELS:
+        raise OptionError(
+            "levels",
+            f"{len(levels)} levels with the fraction {fraction:g} added; at most {MAX_LEVELS}",
+        )
+    return levels
 
 
 def _glb(mesh: OrbitalMesh, scale: float, units: str) -> str:
@@ -50,6 +57,12 @@ def _glb(mesh: OrbitalMesh, scale: float, units: str) -> str:
 
 def _numbers(state: State, mesh: OrbitalMesh, facts: dict[str, Any]) -> str:
     parts = [state.label]
+    if facts.get("element"):
+        parts.append(f"{facts['element']}: Z_eff = {facts['Z']:.4g} (Slater)")
+    elif facts.get("Z") not in (None, 1, 1.0):
+        parts.append(f"Z = {facts['Z']:g}")
+    if facts.get("potential"):
+        parts.append(f"potential {facts['potential']}")
     if facts.get("energy_hartree") is not None:
         parts.append(f"E = {facts['energy_hartree']:.6g} hartree ({facts['energy_ev']:.5g} eV)")
     if facts.get("radial_nodes") is not None:
@@ -58,7 +71,7 @@ def _numbers(state: State, mesh: OrbitalMesh, facts: dict[str, Any]) -> str:
             f"{'s' * (facts['angular_nodes'] != 1)}"
         )
     parts.append(
-        f"{100 * mesh.isovalue.fraction:g}% inside |ψ|² = {mesh.isovalue.level:.3g} bohr⁻³"
+        f"{100 * mesh.isovalue.fraction:g}% inside |ψ|² = {mesh.isovalue.level:.2e} bohr⁻³"
     )
     return " · ".join(parts)
 
@@ -77,7 +90,12 @@ def _panel(
 
     scale = BOHR_IN_ANGSTROM if figure.units == "angstrom" else 1.0
     opts = MeshOptions(grid=figure.grid, faces=options.faces, colors=figure.colors)
-    meshes = [build_mesh(state, opts, fraction=f) for f in levels]
+    meshes = []
+    for f in levels:
+        try:
+            meshes.append(build_mesh(state, opts, fraction=f))
+        except OrbvizError as error:  # say which level could not be made
+            raise ParameterError(f"the {100 * f:g}% level: {error}") from None
     facts = summarise(state, fraction=levels[shown])
     nodes = state.nodal_surfaces()
     reach = max(float(np.abs(b.vertices).max()) for m in meshes for b in m.bodies)
@@ -103,6 +121,7 @@ def _panel(
             "cones": list(nodes.cones),
         },
         "notes": [n for m in meshes for n in m.notes],
+        "_shown": Panel(state, meshes[shown]),  # for the view; not written to the page
     }
 
 
@@ -113,6 +132,7 @@ def page_data(
     *,
     fraction: float,
     title: str | None = None,
+    oriented: bool = False,
 ) -> dict[str, Any]:
     """Return everything a page shows, as JSON-ready values.
 
@@ -128,12 +148,25 @@ def page_data(
         The level shown first (added to the levels if missing).
     title : str, optional
         The page's title (default: the figure's title, else the orbitals' labels).
+    oriented : bool, default: False
+        The states are a set that differs by orientation (2p, 3d, a hybrid set): the page
+        opens with its axes shown and the set's view, as a figure does.
+
+    Notes
+    -----
+    Of the figure options, the page takes grid, colours, units, view, title, axis lines,
+    nodes, cut, key, scale bar and background (the last five as the page's opening state);
+    the others belong to still images (:func:`ignored_options` names them).
     """
+    from orbviz.figures.camera import default_view
+
     arrangement = arrangement_of(len(states), options)
     levels = _levels(options, fraction)
     shown = levels.index(round(fraction, 6))
     panels = [_panel(s, figure, options, levels, shown) for s in states]
-    view = figure.view or VIEWS["iso"]
+    view = figure.view or default_view([p.pop("_shown") for p in panels], oriented)
+    for p in panels:
+        p.pop("_shown", None)
     return {
         "title": title or figure.title or ", ".join(p["label"] for p in panels),
         "levels": levels,
@@ -143,15 +176,49 @@ def page_data(
         "unit_label": _UNIT_LABEL[figure.units],
         "colors": ["#{:02X}{:02X}{:02X}".format(*c[:3]) for c in figure.colors],
         "wheel": _wheel() if any(p["complex"] for p in panels) else None,
+        "start": {
+            "axes": figure.axis_lines if figure.axis_lines is not None else oriented,
+            "nodes": figure.nodes,
+            "cut": figure.cut or "none",
+            "key": figure.key,
+            "scale_bar": figure.scale_bar,
+            "background": _hex(figure.background),
+        },
         "panels": panels,
     }
 
 
+_PAGE_TAKES = {"grid", "colors", "units", "view", "title", "axis_lines", "nodes", "cut"}
+_PAGE_TAKES |= {"key", "scale_bar", "background"}
+
+
+def ignored_options(figure: FigureOptions) -> list[str]:
+    """Return the figure options set away from their defaults that a page does not use."""
+    default = FigureOptions()
+    return [
+        f.name
+        for f in dataclasses.fields(figure)
+        if f.name not in _PAGE_TAKES and getattr(figure, f.name) != getattr(default, f.name)
+    ]
+
+
+def _hex(colour: str) -> str:
+    from PIL import ImageColor
+
+    return "#{:02X}{:02X}{:02X}".format(*ImageColor.getrgb(colour)[:3])
+
+
 def _wheel() -> list[str]:
-    """Twelve stops of the complex-phase colour map, -pi to pi (a CSS conic gradient)."""
+    """Return 24 stops of the complex-phase colour map, as a CSS conic gradient runs.
+
+    A conic gradient starts at the top and runs clockwise; the wheel has phase 0 at the right
+    and the phase growing anticlockwise (as the figures' wheel), so the stops run from
+    pi/2 (top) down through 0 (right), -pi/2 (bottom) and pi (left) back to pi/2.
+    """
     from orbviz.surface.colors import phase_colors
 
-    angles = np.linspace(-np.pi, np.pi, 13)[:-1] + 1e-9
+    angles = np.pi / 2 - np.linspace(0, 2 * np.pi, 25)
+    angles = np.angle(np.exp(1j * angles))  # into (-pi, pi]
     return ["#{:02X}{:02X}{:02X}".format(*c[:3]) for c in phase_colors(angles)]
 
 
@@ -172,9 +239,9 @@ def _key(data: dict[str, Any]) -> str:
         stops = ", ".join(data["wheel"])
         # conic gradients start at the top and run clockwise: phase 0 at the right (90 deg)
         parts.append(
-            f'<span class="wheel" style="background:conic-gradient(from 90deg, {stops}, '
-            f'{data["wheel"][0]})" role="img" aria-label="phase wheel"></span> phase of ψ '
-            "(0 at right, increasing anticlockwise)"
+            f'<span class="wheel" style="background:conic-gradient({stops})" role="img" '
+            'aria-label="phase wheel"></span> phase of ψ (0 at right, increasing '
+            "anticlockwise)"
         )
     return " · ".join(parts)
 
@@ -189,6 +256,45 @@ def _panel_html(k: int, panel: dict[str, Any], first: str) -> str:
         f'<p class="numbers">{html.escape(first)}</p>'
         f'<p class="alt">{html.escape(panel["alt"])}</p></figure>'
     )
+
+
+_STYLE = """
+body { font-family: system-ui, sans-serif; margin: 0 auto; max-width: 1200px; padding: 12px;
+  color: #1a1a1a; background: #fff; }
+h1 { font-size: 1.3em; margin: 4px 0 8px; }
+.controls { display: flex; flex-wrap: wrap; gap: 8px 16px; align-items: center; margin: 6px 0; }
+.controls button { min-width: 44px; min-height: 36px; }
+.key { margin: 6px 0; }
+.swatch { display: inline-block; width: 1.1em; height: 1.1em; vertical-align: -0.2em;
+  border: 1px solid #444; }
+.wheel { display: inline-block; width: 1.4em; height: 1.4em; border-radius: 50%;
+  vertical-align: -0.35em; }
+.panel { margin: 0; position: relative; border: 1px solid #ddd; border-radius: 6px;
+  padding: 4px; }
+.panel canvas { display: block; width: 100%; aspect-ratio: 4 / 3; max-height: 70vh;
+  touch-action: none; }
+@media (max-width: 640px) {
+  .controls input[type=radio], .controls input[type=checkbox] { width: 22px; height: 22px; } }
+.label { font-weight: 600; }
+.scale { position: absolute; right: 12px; top: 36px; text-align: center; font-size: 0.85em; }
+.bar { height: 4px; background: #141414; margin: 0 auto 2px; }
+.numbers { font-size: 0.9em; margin: 4px 2px; }
+.alt { font-size: 0.85em; color: #444; margin: 4px 2px; }
+#status { color: #a33; }
+"""
+
+
+def _dynamic_style(data: dict[str, Any]) -> str:
+    """Return the style rules that depend on the page: columns, background, scale bar."""
+    columns = 1 if data["arrangement"] == "chooser" else min(len(data["panels"]), 2)
+    rules = [
+        f"#orbviz {{ display: grid; grid-template-columns: repeat({columns}, 1fr); gap: 10px; }}",
+        f".panel canvas {{ background: {data['start']['background']}; }}",
+        "@media (max-width: 640px) { #orbviz { grid-template-columns: 1fr; } }",
+    ]
+    if not data["start"]["scale_bar"]:
+        rules.append(".scale { display: none; }")
+    return "\n".join(rules) + "\n"
 
 
 def page_html(data: dict[str, Any]) -> bytes:
@@ -215,51 +321,37 @@ def page_html(data: dict[str, Any]) -> bytes:
         json.dumps(data, separators=(",", ":")).replace("<", "\\u003c").replace("&", "\\u0026")
     )
     script = _viewer_script().replace("</script", "<\\/script")
-    columns = 1 if data["arrangement"] == "chooser" else min(len(data["panels"]), 2)
+    start = data["start"]
+    nodes = " checked" * bool(start["nodes"])
+    axes = " checked" * bool(start["axes"])
+    cuts = "".join(
+        f'<option value="{c}"{" selected" * (c == start["cut"])}>{c}</option>'
+        for c in ("none", "half", "quarter")
+    )
     page = f"""<!doctype html>
 <html lang="en"><head><meta charset="utf-8">
 <meta name="viewport" content="width=device-width, initial-scale=1">
 <meta name="generator" content="orbviz">
 <title>{title}</title>
 <style>
-body {{ font-family: system-ui, sans-serif; margin: 0 auto; max-width: 1200px; padding: 12px;
-  color: #1a1a1a; background: #fff; }}
-h1 {{ font-size: 1.3em; margin: 4px 0 8px; }}
-.controls {{ display: flex; flex-wrap: wrap; gap: 8px 16px; align-items: center; margin: 6px 0; }}
-.controls button {{ min-width: 44px; min-height: 36px; }}
-.key {{ margin: 6px 0; }}
-.swatch {{ display: inline-block; width: 1.1em; height: 1.1em; vertical-align: -0.2em;
-  border: 1px solid #444; }}
-.wheel {{ display: inline-block; width: 1.4em; height: 1.4em; border-radius: 50%;
-  vertical-align: -0.35em; }}
-#orbviz {{ display: grid; grid-template-columns: repeat({columns}, 1fr); gap: 10px; }}
-.panel {{ margin: 0; position: relative; border: 1px solid #ddd; border-radius: 6px;
-  padding: 4px; }}
-.panel canvas {{ display: block; width: 100%; aspect-ratio: 4 / 3; touch-action: none; }}
-.label {{ font-weight: 600; }}
-.scale {{ position: absolute; right: 12px; top: 36px; text-align: center; font-size: 0.85em; }}
-.bar {{ height: 4px; background: #141414; margin: 0 auto 2px; }}
-.numbers {{ font-size: 0.9em; margin: 4px 2px; }}
-.alt {{ font-size: 0.85em; color: #444; margin: 4px 2px; }}
-#status {{ color: #a33; }}
-</style></head>
+{_STYLE}{_dynamic_style(data)}</style></head>
 <body>
 <h1>{title}</h1>
 <div class="controls" role="group" aria-label="view controls">
 <span>Enclosed probability: {levels}</span>
-<label><input type="checkbox" id="nodes"> nodal surfaces</label>
-<label>Cutaway <select id="cut"><option value="none">none</option>
-<option value="half">half</option><option value="quarter">quarter</option></select></label>
+<label><input type="checkbox" id="nodes"{nodes}> nodal surfaces</label>
+<label><input type="checkbox" id="axes"{axes}> axes</label>
+<label>Cutaway <select id="cut">{cuts}</select></label>
 {chooser}
 <span><button data-view="reset">reset</button> <button data-view="x">x</button>
 <button data-view="y">y</button> <button data-view="z">z</button></span>
 </div>
-<p class="key">{_key(data)}</p>
+<p class="key"{" hidden" * (not start["key"])}>{_key(data)}</p>
 <div id="orbviz" data-ready="no">{panels}</div>
 <p id="status" role="status"></p>
 <p class="help">Drag or swipe to turn, pinch or scroll to zoom, right-drag or two fingers to
 pan. Keys: arrows turn, + and − zoom, x y z i views, r reset, 1–{len(data["levels"])} levels,
-n nodal surfaces, c cutaway. Made by orbviz.</p>
+n nodal surfaces, a axes, c cutaway (none, half, quarter). Made by orbviz.</p>
 <script type="application/json" id="orbviz-data">{payload}</script>
 <script>{script}</script>
 </body></html>

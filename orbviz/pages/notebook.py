@@ -68,7 +68,8 @@ class Shown:
 
     def _repr_html_(self) -> str:
         doc = html.escape(self.page_html(), quote=True)
-        height = 520 if len(self.states) == 1 else 900
+        # tall enough for the controls, the canvas, its numbers and alt text
+        height = 760 if len(self.states) == 1 else 1500
         return (
             f'<iframe srcdoc="{doc}" style="width: 100%; height: {height}px; border: 0" '
             'sandbox="allow-scripts" title="orbviz interactive figure"></iframe>'

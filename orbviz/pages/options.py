@@ -3,14 +3,16 @@
 from __future__ import annotations
 
 import math
+import re
 from dataclasses import dataclass
 from typing import Any
 
 from orbviz._defaults import LIMITS
-from orbviz._options import choice, integer, option
+from orbviz._options import choice, integer, option, shown
 
 __all__ = ["MAX_GRID", "MAX_PANELS", "PageOptions", "arrangement_of", "fractions"]
 
+_DECIMAL = re.compile(r"\s*[0-9]*\.?[0-9]+(e[+-]?[0-9]+)?\s*", re.I)  # plain ASCII decimals
 MAX_LEVELS = 5  # each level is a surface per panel: five keep a page's weight in bounds
 MAX_PANELS = 24  # as a sheet: the 4f and 5f sets and more
 # a grid draws each panel on its own WebGL canvas; browsers keep about 16 contexts a page
@@ -22,23 +24,21 @@ def fractions(raw: Any) -> tuple[float, ...]:
     """Read enclosed fractions, ``0.5,0.9,0.99`` or a sequence: 1 to 5, each in range, sorted."""
     low, high = LIMITS.fraction_min, LIMITS.fraction_max
     rule = f"expected 1 to {MAX_LEVELS} fractions from {low:g} to {high:g}, like 0.5,0.9,0.99"
-    parts: list[Any] = (
-        raw.split(",")
-        if isinstance(raw, str)
-        else list(raw)
-        if isinstance(raw, (list, tuple))
-        else []
-    )
+    parts: list[Any] = []
+    if isinstance(raw, str):
+        parts = raw.split(",")
+    elif isinstance(raw, (list, tuple)):
+        parts = list(raw)
     try:
-        if any(isinstance(v, bool) for v in parts):
+        if not 1 <= len(parts) <= MAX_LEVELS or any(
+            isinstance(v, bool) or (isinstance(v, str) and not _DECIMAL.fullmatch(v)) for v in parts
+        ):
             raise ValueError
         values = sorted({float(v) for v in parts})
     except (TypeError, ValueError):
-        raise ValueError(f"{rule}, got {raw!r}") from None
-    if not (1 <= len(values) <= MAX_LEVELS) or not all(
-        math.isfinite(v) and low <= v <= high for v in values
-    ):
-        raise ValueError(f"{rule}, got {raw!r}")
+        raise ValueError(f"{rule}, got {shown(raw)}") from None
+    if not all(math.isfinite(v) and low <= v <= high for v in values):
+        raise ValueError(f"{rule}, got {shown(raw)}")
     return tuple(values)
 
 
@@ -84,13 +84,15 @@ def arrangement_of(count: int, options: PageOptions) -> str:
 
     Raises
     ------
+    ParameterError
+        For more than MAX_PANELS orbitals.
     OptionError
-        For more than MAX_PANELS orbitals, or a grid of more than MAX_GRID.
+        For a grid of more than MAX_GRID.
     """
-    from orbviz.errors import OptionError
+    from orbviz.errors import OptionError, ParameterError
 
     if count > MAX_PANELS:
-        raise OptionError("arrangement", f"a page holds at most {MAX_PANELS} orbitals, not {count}")
+        raise ParameterError(f"a page holds at most {MAX_PANELS} orbitals, not {count}")
     arrangement = options.arrangement or ("grid" if count <= 4 else "chooser")
     if arrangement == "grid" and count > MAX_GRID:
         raise OptionError(

@@ -147,9 +147,18 @@ def _page(item: Item, states: list[State], title: str | None, out: Path) -> dict
     if not _wanted(item, PAGE_OUTPUTS):
         return {}
     from orbviz.pages.build import page_data, page_html
+    from orbviz.states.make import oriented_set
 
     fraction = item.physics.fraction
-    data = page_data(states, item.figure, item.page, fraction=fraction, title=title or item.name)
+    oriented = any(oriented_set(spec) for spec in item.members)
+    data = page_data(
+        states,
+        item.figure,
+        item.page,
+        fraction=fraction,
+        title=title or item.name,
+        oriented=oriented,
+    )
     return {out / item.file_of("html"): page_html(data)}
 
 

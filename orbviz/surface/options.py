@@ -101,3 +101,9 @@ class MeshOptions:
         metavar="LENGTH",
     )
     colors: ColorPair = colors_option()
+
+    def relations(self) -> list[tuple[str, str]]:
+        """Cross-option problems: a display size sets the unit, so --units cannot."""
+        if self.display_size is not None and self.units != "bohr":
+            return [("display_size", "sets the length unit (metres): give it or --units, not both")]
+        return []

@@ -16,7 +16,11 @@ const Z_UP = new THREE.Quaternion().setFromAxisAngle(new THREE.Vector3(1, 0, 0),
 const CUTS = {};
 const VIEWS = { iso: [35, 25], x: [0, 0], y: [90, 0], z: [0, 90] };
 
-const state = { level: data.level, nodes: false, cut: "none", active: 0 };
+const start = data.start || {};
+const state = {
+  level: data.level, nodes: !!start.nodes, cut: start.cut || "none", axes: !!start.axes, active: 0,
+};
+const CUT_ORDER = ["none", "half", "quarter"];
 const reach = Math.max(...data.panels.map((p) => p.reach));
 const camera = new THREE.OrthographicCamera(-1, 1, 1, -1, reach * 0.01, reach * 40);
 const target = new THREE.Vector3();
@@ -94,6 +98,39 @@ function nodeMeshes(nodes) {
   return group;
 }
 
+function letter(text) {
+  // a letter as a sprite: drawn once on a canvas, always facing the camera
+  const canvas = document.createElement("canvas");
+  canvas.width = canvas.height = 64;
+  const g = canvas.getContext("2d");
+  g.fillStyle = "#141414";
+  g.font = "bold 48px system-ui, sans-serif";
+  g.textAlign = "center";
+  g.textBaseline = "middle";
+  g.fillText(text, 32, 34);
+  const sprite = new THREE.Sprite(
+    new THREE.SpriteMaterial({ map: new THREE.CanvasTexture(canvas), depthTest: false }),
+  );
+  sprite.scale.setScalar(reach * 0.14);
+  return sprite;
+}
+
+function axisLines(length) {
+  // x, y and z through the nucleus, in the physics frame, each labelled at its + end
+  const group = new THREE.Group();
+  const ink = new THREE.LineBasicMaterial({ color: 0x141414 });
+  ["x", "y", "z"].forEach((name, k) => {
+    const end = new THREE.Vector3().setComponent(k, length);
+    const geometry = new THREE.BufferGeometry().setFromPoints([end.clone().negate(), end]);
+    group.add(new THREE.Line(geometry, ink));
+    const tip = letter(name);
+    tip.position.copy(end.clone().multiplyScalar(1.08));
+    group.add(tip);
+  });
+  group.quaternion.copy(Z_UP);
+  return group;
+}
+
 async function makeScene(panel) {
   const scene = new THREE.Scene();
   scene.add(new THREE.HemisphereLight(0xffffff, 0x444444, 1.6));
@@ -115,7 +152,9 @@ async function makeScene(panel) {
   }
   const nodes = nodeMeshes(panel.nodes);
   scene.add(nodes);
-  return { scene, levels, nodes, key };
+  const axes = axisLines(reach * 1.15);
+  scene.add(axes);
+  return { scene, levels, nodes, key, axes };
 }
 
 function applyState(view) {
@@ -128,6 +167,7 @@ function applyState(view) {
     });
   });
   view.parts.nodes.visible = state.nodes;
+  view.parts.axes.visible = state.axes;
   view.parts.nodes.children.forEach((m) => {
     m.material.clippingPlanes = CUTS[state.cut] || [];
     m.material.clipIntersection = true;
@@ -211,6 +251,7 @@ function setLevel(k) {
 
 function toggle(what, value) {
   if (what === "nodes") state.nodes = value;
+  if (what === "axes") state.axes = value;
   if (what === "cut") state.cut = value;
   views.forEach(applyState);
   renderAll();
@@ -245,8 +286,12 @@ function keyboard(event) {
       document.getElementById("nodes").checked = !state.nodes;
       toggle("nodes", !state.nodes);
     },
+    a: () => {
+      document.getElementById("axes").checked = !state.axes;
+      toggle("axes", !state.axes);
+    },
     c: () => {
-      const next = state.cut === "none" ? "half" : "none";
+      const next = CUT_ORDER[(CUT_ORDER.indexOf(state.cut) + 1) % CUT_ORDER.length];
       document.getElementById("cut").value = next;
       toggle("cut", next);
     },
@@ -270,7 +315,7 @@ async function main() {
       const renderer = new THREE.WebGLRenderer({ canvas, antialias: true, preserveDrawingBuffer: true });
       renderer.setPixelRatio(Math.min(window.devicePixelRatio || 1, 2));
       renderer.localClippingEnabled = true;
-      renderer.setClearColor(0xffffff, 1);
+      renderer.setClearColor(new THREE.Color(start.background || "#FFFFFF"), 1);
       const view = {
         index, cell, canvas, renderer, visible: true,
         parts: await makeScene(panel),
@@ -288,6 +333,7 @@ async function main() {
     document.querySelectorAll("input[name=level]").forEach((el) =>
       el.addEventListener("change", () => setLevel(Number(el.value))));
     document.getElementById("nodes").addEventListener("change", (e) => toggle("nodes", e.target.checked));
+    document.getElementById("axes").addEventListener("change", (e) => toggle("axes", e.target.checked));
     document.getElementById("cut").addEventListener("change", (e) => toggle("cut", e.target.value));
     document.querySelectorAll("button[data-view]").forEach((b) =>
       b.addEventListener("click", () => setView(b.dataset.view === "reset" ? null : b.dataset.view)));
