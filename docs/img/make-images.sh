@@ -15,3 +15,8 @@ orbviz plot 3s 3p 3d --kind radial --width 120mm --dpi 200 -o plot-n3-radial.png
 # a page, photographed in headless chromium (software WebGL)
 orbviz render 3dz2 -o /tmp/orbviz-page-3dz2.html
 python ../../tests/tools/page_screenshot.py /tmp/orbviz-page-3dz2.html page-3dz2.png
+# electron clouds (docs/clouds.md)
+orbviz render 3dz2 --style cloud --size 800x600 --title "3dz2: 40 000 dots" -o cloud-3dz2.png
+orbviz render 3s --style volume --cut half --size 800x600 \
+    --title "3s as a glowing density, cut open" -o volume-3s-cut.png
+orbviz plot 3dz2 3dxy --kind dots --width 150mm --dpi 150 -o dots-3d.png
