@@ -18,6 +18,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 
+import orbviz
 from orbviz.cli import main
 from tests.conftest import chromium_path, khronos_validate
 
@@ -256,6 +257,12 @@ def test_a_page_draws_offline_switches_levels_and_turns(browser, pages):
         session.page.select_option("#cut", "half")
         assert np.abs(with_nodes - plain).mean() > 0.5
         assert np.abs(session.canvas() - with_nodes).mean() > 0.5
+        # the dots replace the surface (the d key)
+        before_dots = session.canvas()
+        session.page.keyboard.press("d")
+        assert session.page.is_checked("#dots")
+        assert np.abs(session.canvas() - before_dots).mean() > 0.5
+        session.page.keyboard.press("d")
         # axes through the nucleus: the checkbox and the a key; c cycles the cutaways
         before_axes = session.canvas()
         session.page.keyboard.press("a")
@@ -430,3 +437,18 @@ def test_labels_none_draws_no_panel_labels(tmp_path):
     # --labels takes none as one of its choices (it used to be read as a missing value)
     assert main(["render", "2pz", "2px", *SMALL, "--labels", "none", "--size", "200x150",
                  "-o", str(tmp_path / "l.png")]) == 0  # fmt: skip
+
+
+def test_the_page_dots_are_samples_coloured_by_the_sign_of_psi(pages):
+    # the cloud's colours, stored as linear light (glTF 2.0 section 3.9.2 convention, IEC
+    # 61966-2-1 transfer), must be the sign colour of psi at each dot's position
+    from scipy.constants import physical_constants
+
+    panel = _data(pages["3dz2"])["panels"][0]
+    xyz = np.frombuffer(base64.b64decode(panel["cloud"]["positions"]), "<f4").reshape(-1, 3)
+    rgb = np.frombuffer(base64.b64decode(panel["cloud"]["colors"]), np.uint8).reshape(-1, 3)
+    assert 9_900 <= len(xyz) <= 10_000  # 10,000 drawn, the far 0.5% left out
+    bohr = xyz.astype(np.float64) / (physical_constants["Bohr radius"][0] * 1e10)  # A -> bohr
+    psi = orbviz.state("3dz2").psi(*bohr.T)
+    positive = rgb[:, 2] > rgb[:, 0]  # #004488 stays blue-dominant, #DDAA33 red-dominant
+    assert np.array_equal(positive, psi > 0)

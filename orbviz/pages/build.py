@@ -55,6 +55,22 @@ def _glb(mesh: OrbitalMesh, scale: float, units: str) -> str:
     return base64.b64encode(data).decode("ascii")
 
 
+def _cloud(state: State, count: int, scale: float, colors: Any) -> dict[str, str] | None:
+    """Return exact samples of |psi|^2 for the page's dots: positions and linear colours."""
+    if count == 0:
+        return None
+    from orbviz.figures.cloud import cloud_points
+    from orbviz.surface.colors import linear_bytes, phase_colors, sign_colors
+
+    points = cloud_points(state, count)
+    rgba = sign_colors(points.phase, colors) if points.real else phase_colors(points.phase)
+    xyz = (points.positions * np.float32(scale)).astype("<f4")
+    return {
+        "positions": base64.b64encode(xyz.tobytes()).decode("ascii"),
+        "colors": base64.b64encode(linear_bytes(rgba)[:, :3].tobytes()).decode("ascii"),
+    }
+
+
 def _numbers(state: State, mesh: OrbitalMesh, facts: dict[str, Any]) -> str:
     parts = [state.label]
     if facts.get("element"):
@@ -120,6 +136,7 @@ def _panel(
             "planes": [list(n) for n in nodes.planes],
             "cones": list(nodes.cones),
         },
+        "cloud": _cloud(state, options.dots, scale, figure.colors),
         "notes": [n for m in meshes for n in m.notes],
         "_shown": Panel(state, meshes[shown]),  # for the view; not written to the page
     }
@@ -322,6 +339,7 @@ def page_html(data: dict[str, Any]) -> bytes:
     )
     script = _viewer_script().replace("</script", "<\\/script")
     start = data["start"]
+    has_dots = any(p.get("cloud") for p in data["panels"])
     nodes = " checked" * bool(start["nodes"])
     axes = " checked" * bool(start["axes"])
     cuts = "".join(
@@ -341,6 +359,7 @@ def page_html(data: dict[str, Any]) -> bytes:
 <span>Enclosed probability: {levels}</span>
 <label><input type="checkbox" id="nodes"{nodes}> nodal surfaces</label>
 <label><input type="checkbox" id="axes"{axes}> axes</label>
+<label{" hidden" * (not has_dots)}><input type="checkbox" id="dots"> dots</label>
 <label>Cutaway <select id="cut">{cuts}</select></label>
 {chooser}
 <span><button data-view="reset">reset</button> <button data-view="x">x</button>
@@ -351,7 +370,7 @@ def page_html(data: dict[str, Any]) -> bytes:
 <p id="status" role="status"></p>
 <p class="help">Drag or swipe to turn, pinch or scroll to zoom, right-drag or two fingers to
 pan. Keys: arrows turn, + and − zoom, x y z i views, r reset, 1–{len(data["levels"])} levels,
-n nodal surfaces, a axes, c cutaway (none, half, quarter). Made by orbviz.</p>
+n nodal surfaces, a axes, d dots, c cutaway (none, half, quarter). Made by orbviz.</p>
 <script type="application/json" id="orbviz-data">{payload}</script>
 <script>{script}</script>
 </body></html>

@@ -53,6 +53,9 @@ class PageOptions:
         first.
     faces : int, default: 20000
         Faces of each surface on the page (decimated): the page's weight.
+    dots : int, default: 10000
+        Exact samples of |psi|^2 each orbital carries, shown as a cloud of dots by a toggle
+        (0: no cloud).
     arrangement : {"grid", "chooser"} or None, default: None
         Several orbitals side by side sharing the camera, or one at a time with a chooser;
         None: a grid of up to four, a chooser beyond.
@@ -69,6 +72,13 @@ class PageOptions:
         "faces of each surface on a page (its weight), 1000 to 200000",
         integer(1000, 200000),
         flag="--page-faces",
+        metavar="N",
+    )
+    dots: int = option(
+        10_000,
+        "dots of the cloud a page can show instead of the surface, 0 (none) to 100000",
+        integer(0, 100_000),
+        flag="--page-dots",
         metavar="N",
     )
     arrangement: str | None = option(

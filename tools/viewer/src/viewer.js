@@ -18,7 +18,12 @@ const VIEWS = { iso: [35, 25], x: [0, 0], y: [90, 0], z: [0, 90] };
 
 const start = data.start || {};
 const state = {
-  level: data.level, nodes: !!start.nodes, cut: start.cut || "none", axes: !!start.axes, active: 0,
+  level: data.level,
+  nodes: !!start.nodes,
+  cut: start.cut || "none",
+  axes: !!start.axes,
+  dots: false,
+  active: 0,
 };
 const CUT_ORDER = ["none", "half", "quarter"];
 const reach = Math.max(...data.panels.map((p) => p.reach));
@@ -131,6 +136,20 @@ function axisLines(length) {
   return group;
 }
 
+function dotCloud(cloud) {
+  // exact samples of |psi|^2: float32 positions and linear RGB bytes, in the physics frame
+  if (!cloud) return null;
+  const positions = new Float32Array(decode(cloud.positions));
+  const colours = new Uint8Array(decode(cloud.colors));
+  const geometry = new THREE.BufferGeometry();
+  geometry.setAttribute("position", new THREE.BufferAttribute(positions, 3));
+  geometry.setAttribute("color", new THREE.BufferAttribute(colours, 3, true));
+  const material = new THREE.PointsMaterial({ size: 2.5, sizeAttenuation: false, vertexColors: true });
+  const points = new THREE.Points(geometry, material);
+  points.quaternion.copy(Z_UP);
+  return points;
+}
+
 async function makeScene(panel) {
   const scene = new THREE.Scene();
   scene.add(new THREE.HemisphereLight(0xffffff, 0x444444, 1.6));
@@ -154,12 +173,20 @@ async function makeScene(panel) {
   scene.add(nodes);
   const axes = axisLines(reach * 1.15);
   scene.add(axes);
-  return { scene, levels, nodes, key, axes };
+  const dots = dotCloud(panel.cloud);
+  if (dots) scene.add(dots);
+  return { scene, levels, nodes, key, axes, dots };
 }
 
 function applyState(view) {
+  const dots = view.parts.dots && state.dots;
+  if (view.parts.dots) {
+    view.parts.dots.visible = dots;
+    view.parts.dots.material.clippingPlanes = CUTS[state.cut] || [];
+    view.parts.dots.material.clipIntersection = true;
+  }
   view.parts.levels.forEach((level, k) => {
-    level.root.visible = k === state.level;
+    level.root.visible = k === state.level && !dots; // the dots replace the surface
     level.sources.forEach((s) => {
       s.made = s.made || {};
       s.made[state.cut] = s.made[state.cut] || material(s.base, state.cut, 1);
@@ -252,6 +279,7 @@ function setLevel(k) {
 function toggle(what, value) {
   if (what === "nodes") state.nodes = value;
   if (what === "axes") state.axes = value;
+  if (what === "dots") state.dots = value;
   if (what === "cut") state.cut = value;
   views.forEach(applyState);
   renderAll();
@@ -285,6 +313,10 @@ function keyboard(event) {
     n: () => {
       document.getElementById("nodes").checked = !state.nodes;
       toggle("nodes", !state.nodes);
+    },
+    d: () => {
+      document.getElementById("dots").checked = !state.dots;
+      toggle("dots", !state.dots);
     },
     a: () => {
       document.getElementById("axes").checked = !state.axes;
@@ -334,6 +366,7 @@ async function main() {
       el.addEventListener("change", () => setLevel(Number(el.value))));
     document.getElementById("nodes").addEventListener("change", (e) => toggle("nodes", e.target.checked));
     document.getElementById("axes").addEventListener("change", (e) => toggle("axes", e.target.checked));
+    document.getElementById("dots").addEventListener("change", (e) => toggle("dots", e.target.checked));
     document.getElementById("cut").addEventListener("change", (e) => toggle("cut", e.target.value));
     document.querySelectorAll("button[data-view]").forEach((b) =>
       b.addEventListener("click", () => setView(b.dataset.view === "reset" ? null : b.dataset.view)));
