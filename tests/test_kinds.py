@@ -43,9 +43,16 @@ def _argv(command: str, kind: str, out) -> list[str]:
     if command == "info":
         return ["info", spec, *physics, "--json"]
     if command.startswith("plot"):
-        return ["plot", spec, *physics, "--kind", command.split("-")[1], "-o", str(out / "p.png")]
+        kind = command.split("-")[1]
+        few = ["--points", "2000"] if kind == "dots" else []
+        return ["plot", spec, *physics, "--kind", kind, *few, "-o", str(out / "p.png")]
     if command == "render":
         return ["render", spec, *physics, *SMALL, "--size", "160x120", "-o", str(out / "r.png")]
+    if command == "sample":
+        return ["sample", spec, *physics, "--points", "2000", "-o", str(out / "s.ply")]
+    if command in ("cloud", "volume"):
+        look = ["--style", command, "--points", "2000", "--size", "160x120"]
+        return ["render", spec, *physics, *SMALL, *look, "-o", str(out / "c.png")]
     if command == "page":
         return ["render", spec, *physics, *SMALL, "--levels", "0.5", "-o", str(out / "p.html")]
     if command == "mesh":
@@ -56,7 +63,20 @@ def _argv(command: str, kind: str, out) -> list[str]:
     return ["animate", spec, *physics, *frames, "-o", str(out / "a.gif")]
 
 
-COMMANDS = ["info", "plot-slice", "plot-radial", "render", "page", "mesh", "model", "animate"]
+COMMANDS = [
+    "info",
+    "plot-slice",
+    "plot-radial",
+    "plot-dots",
+    "render",
+    "cloud",
+    "volume",
+    "page",
+    "sample",
+    "mesh",
+    "model",
+    "animate",
+]
 
 
 @pytest.mark.slow
