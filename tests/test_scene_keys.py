@@ -108,6 +108,7 @@ PAGE = [
     ("levels", '"many"', "page.levels: expected 1 to 5 fractions"),
     ("faces", "10", "page.faces: expected a whole number from 1000 to 200000"),
     ("arrangement", '"pile"', "page.arrangement: expected grid, chooser or none"),
+    ("dots", "-1", "page.dots: expected a whole number from 0 to 100000"),
     ("size", "3", "page.size: unknown key"),
 ]
 

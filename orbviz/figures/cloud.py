@@ -26,9 +26,8 @@ __all__ = ["add_cloud", "add_volume", "styled"]
 _REACH = 0.995  # radial quantile beyond which cloud dots are left out
 _VOLUME_GRID = 112  # samples per axis of a volume figure
 _SEED = 20261202  # figures are reproducible: the same dots every time
-# each sample's alpha: 0.012 at the isovalue, growing as sqrt(density) up to 0.1; about 30
-# samples across a lobe then add up to an opacity near 0.8 (VTK composites RGBA volumes
-# sample by sample)
+# each sample's alpha: 0.06 at the isovalue, growing as sqrt(density) up to 0.5 (VTK
+# composites RGBA volumes sample by sample; chosen by eye on 3dz2, 3,2,1 and 3s)
 _AT_LEVEL, _CAP = 0.06, 0.5
 
 
@@ -42,9 +41,9 @@ def cloud_points(state: State, count: int) -> Points:
 def volume_grid(state: State, level: float, options: FigureOptions) -> Any:
     """Return |psi|^2 on a grid as a ``pyvista.ImageData`` with RGBA point colours.
 
-    The colour is the phase colour; the alpha grows as the square root of the density, a
-    quarter at the figure's isovalue and full at 16 times it, so an s state's outer shells
-    show beside its dense core.
+    The colour is the phase colour; each sample's alpha grows as the square root of the
+    density, 0.06 at the figure's isovalue and at most 0.5, so an s state's outer shells show
+    beside its dense core.
     """
     import pyvista
 
