@@ -6,6 +6,7 @@ import json
 
 import pytest
 
+import orbviz
 from orbviz.cli import main
 from orbviz.errors import SpecError
 from orbviz.states.atoms import SYMBOLS, configuration, configuration_text, element, slater_charge
@@ -101,3 +102,26 @@ def test_scene_atom_key_prefixes_every_spec():
     assert [i.spec for i in items] == ["C:2s", "C:2px", "C:2py", "C:2pz"]
     with pytest.raises(SceneError, match="no 3d electron"):
         parse_scene('[[orbital]]\nspec = "3dz2"\natom = "Na"\n', "a.toml")
+
+
+@pytest.mark.parametrize(
+    ("spec", "z_eff", "n_star"),
+    [
+        # Slater's rules (J. C. Slater, Phys. Rev. 36, 57 (1930)), worked by hand here:
+        # Zn 4s: 30 - (0.35*1 + 0.85*18 + 1.00*10) = 4.35, n* = 3.7
+        ("Zn:4s", 4.35, 3.7),
+        # Ag 5s1: 47 - (0.85*18 + 1.00*28) = 3.70, n* = 4.0
+        ("Ag:5s", 3.70, 4.0),
+        # Xe 5s2 5p6: 54 - (0.35*7 + 0.85*18 + 1.00*28) = 8.25, n* = 4.0
+        ("Xe:5pz", 8.25, 4.0),
+        # Kr 4s2 4p6: 36 - (0.35*7 + 0.85*18 + 1.00*10) = 8.25, n* = 3.7
+        ("Kr:4pz", 8.25, 3.7),
+        # Na 3s1: 11 - (0.85*8 + 1.00*2) = 2.20, n* = 3
+        ("Na:3s", 2.20, 3.0),
+    ],
+)
+def test_screened_energies_follow_slaters_rule_with_his_n_star(spec, z_eff, n_star):
+    facts = orbviz.summarise(spec)
+    assert facts["Z"] == pytest.approx(z_eff, abs=1e-12)
+    assert facts["energy_hartree"] == pytest.approx(-(z_eff**2) / (2 * n_star**2), rel=1e-12)
+    assert facts["degeneracy"] == 4  # an ns + np Slater group shares Z_eff and n*

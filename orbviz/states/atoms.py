@@ -23,12 +23,15 @@ from __future__ import annotations
 from orbviz.errors import SpecError
 
 __all__ = [
+    "SLATER_N",
     "SYMBOLS",
     "configuration",
     "configuration_text",
     "element",
     "screened_charge",
     "slater_charge",
+    "slater_energy",
+    "slater_group_size",
 ]
 
 SYMBOLS = (
@@ -85,6 +88,22 @@ def _group(n: int, l: int) -> tuple[int, int]:
 def _order(group: tuple[int, int]) -> tuple[int, int]:
     n, l = group
     return (n, 0) if l == 0 else (n, l)  # (3,0) sp < (3,2) d < (4,0) sp < (4,2) d ...
+
+
+# Slater's effective principal quantum numbers n* (J. C. Slater, Phys. Rev. 36, 57 (1930))
+SLATER_N = {1: 1.0, 2: 2.0, 3: 3.0, 4: 3.7, 5: 4.0, 6: 4.2}
+
+
+def slater_energy(n: int, charge: float, mass_ratio: float = 1.0) -> float:
+    """Slater's orbital energy -Z_eff^2 / (2 n*^2) in hartree (n* = 3.7, 4.0, 4.2 for n = 4-6)."""
+    return -(charge**2) * mass_ratio / (2.0 * SLATER_N[n] ** 2)
+
+
+def slater_group_size(n: int, l: int) -> int:
+    """States of one Slater group, which share Z_eff and n*: 1s 1, ns+np 4, nd 5, nf 7."""
+    if n == 1:
+        return 1
+    return 4 if l <= 1 else 2 * l + 1
 
 
 def slater_charge(Z: int, n: int, l: int) -> float:
@@ -146,6 +165,6 @@ def screened_charge(
     note = (
         f"screened hydrogen-like orbital of {name} (Z = {nucleus}, "
         f"{configuration_text(nucleus)}): Slater's Z_eff = {charge:.2f}; its energy "
-        "-Z_eff^2/2n^2 is a rough estimate"
+        f"-Z_eff^2/2n*^2 (n* = {SLATER_N[shells[0][0]]:g}) is a rough estimate"
     )
     return name, charge, note

@@ -403,9 +403,13 @@ class Orbital:
 
     # ----------------------------------------------------------------- physics
     def shell_energy(self, n: int, l: int) -> float:
-        """Energy of the (n, l) shell in hartree."""
+        """Energy of the (n, l) shell in hartree (Slater's -Z_eff^2/2n*^2 for a screened atom)."""
         if self.potential is not None:
             return self.solutions[(n, l)].energy
+        if self.element is not None:  # a screened atom: Slater's rule, with his n*
+            from orbviz.states.atoms import slater_energy
+
+            return slater_energy(n, self.Z, self.mass_ratio)
         return energy_hartree(n, Z=self.Z, mass_ratio=self.mass_ratio)
 
     def node_radii(self, n: int, l: int) -> np.ndarray:

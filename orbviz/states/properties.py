@@ -79,9 +79,17 @@ def most_probable_radius_of(orbital: Orbital) -> float:
 
 
 def _degeneracy(orbital: Orbital) -> int | None:
-    """n^2 for a hydrogen-like level; 2l + 1 (the central-potential minimum) otherwise."""
+    """Return the size of the state's energy level (None for a mixture of levels).
+
+    n^2 for a hydrogen-like level; a screened atom's Slater group (1s 1, ns+np 4, nd 5, nf 7:
+    they share Z_eff and n*); 2l + 1 (the central-potential minimum) otherwise.
+    """
     if not orbital.is_energy_eigenstate:
         return None
+    if orbital.element is not None:
+        from orbviz.states.atoms import slater_group_size
+
+        return slater_group_size(*orbital.shells[0])
     if orbital.potential is None:
         return orbital.shells[0][0] ** 2
     return 2 * orbital.shells[0][1] + 1
