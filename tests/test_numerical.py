@@ -119,3 +119,29 @@ def test_interpolated_function_is_normalised():
     value = np.trapezoid((s.radial(r) * r) ** 2, r)
     assert value == pytest.approx(1.0, rel=1e-6)
     assert math.isclose(s.expectation(0), 1.0, rel_tol=1e-7)
+
+
+@pytest.mark.parametrize(
+    ("text", "fragment"),
+    [
+        ("# r (bohr), V (hartree)\n0.1 -10\n0.2 -5\nabc def\n", "line 4: expected two numbers"),
+        ("# r, V\n0.1, -10\n0.2, -5, 3\n", "line 3: expected two numbers r, V, got '0.2, -5, 3'"),
+        ("0.1 -10\n0.2\n", "line 2: expected two numbers"),
+    ],
+)
+def test_a_malformed_table_line_is_named_by_its_number(tmp_path, text, fragment):
+    from orbviz.errors import ParameterError
+
+    path = tmp_path / "t.txt"
+    path.write_text(text)
+    with pytest.raises(ParameterError, match=fragment.replace("(", r"\(")):
+        Tabulated.from_file(path)
+
+
+def test_a_comma_in_a_comment_does_not_make_a_table_comma_separated(tmp_path):
+    # issue 18: "# r (bohr), V (hartree)" above whitespace-separated columns made the file
+    # unreadable. The Coulomb table still gives hydrogen's 2p energy, -1/8 hartree (closed form)
+    r = np.geomspace(1e-10, 2000.0, 20000)
+    path = tmp_path / "coulomb.txt"
+    np.savetxt(path, np.column_stack([r, -1.0 / r]), header="r (bohr), V (hartree)")
+    assert solve_radial(Tabulated.from_file(path), 2, 1).energy == pytest.approx(-0.125, rel=1e-4)

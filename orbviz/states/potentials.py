@@ -160,7 +160,10 @@ class Tabulated(Potential):
             if not any(row.strip() for row in rows):
                 raise ValueError("no rows of numbers")
             comma = any("," in row for row in rows)  # sniff data rows only, not comments
-            data = np.loadtxt(rows, delimiter="," if comma else None, ndmin=2)
+            try:
+                data = np.loadtxt(rows, delimiter="," if comma else None, ndmin=2)
+            except ValueError:
+                raise ValueError(_first_bad_line(rows, comma)) from None
         except UnicodeDecodeError as error:
             raise ParameterError(
                 f"cannot read potential table {path.name!r}: not UTF-8 text (byte {error.start})"
@@ -180,6 +183,22 @@ class Tabulated(Potential):
 
     def describe(self) -> str:  # noqa: D102
         return f"table {self.name} ({self.r.size} points, {self.r[0]:g}-{self.r[-1]:g} bohr)"
+
+
+def _first_bad_line(rows: list[str], comma: bool) -> str:
+    """Name the first line that is not two numbers (lines counted from 1, comments cut)."""
+    for number, row in enumerate(rows, start=1):
+        if not row.strip():
+            continue
+        cells = [c.strip() for c in row.split(",")] if comma else row.split()
+        try:
+            if len(cells) != 2:
+                raise ValueError
+            [float(c) for c in cells]
+        except ValueError:
+            shown = row.strip() if len(row.strip()) <= 60 else row.strip()[:60] + "..."
+            return f"line {number}: expected two numbers r, V, got {shown!r}"
+    return "rows of unequal length"
 
 
 def check_potential_text(raw: object) -> str:
