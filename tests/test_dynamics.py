@@ -162,3 +162,33 @@ def test_animated_glb_passes_the_khronos_validator(tmp_path):
     (anim,) = tree["animations"]
     assert len(anim["channels"]) == 5
     assert all(s["interpolation"] == "STEP" for s in anim["samplers"])
+
+
+@pytest.mark.parametrize(
+    "spec, potential",
+    [
+        # Coulomb: E depends on n only (Bohr; Griffiths eq. 4.70): 2s and 2p are one level
+        ("2s + 2pz", "coulomb"),
+        # the isotropic harmonic well: E = (2 n_r + l + 3/2) omega (the three-dimensional
+        # isotropic oscillator, Sakurai & Napolitano, Modern Quantum Mechanics; from memory;
+        # n_r = n - l - 1 here): 3s (n_r 2, l 0) and 4dxy (n_r 1, l 2) are both 11/2 omega
+        ("3s + 4dxy", "harmonic:0.37"),
+    ],
+)
+def test_numerically_degenerate_mixtures_do_not_move(capsys, tmp_path, spec, potential):
+    out = tmp_path / "a.gif"
+    status = main(["animate", spec, "--potential", potential, "--frames", "2", "-o", str(out)])
+    err = capsys.readouterr().err
+    assert status == 2 and "does not move" in err and "solver's reach" in err
+    assert not out.exists()
+
+
+def test_a_numerical_coulomb_beat_has_the_exact_period():
+    # 1s + 2pz: dE = 1/2 - 1/8 = 3/8 hartree (Bohr), T = 2 pi / dE in atomic units of time
+    from orbviz.states.potentials import Coulomb
+
+    state = Orbital.from_spec("1s + 2pz").in_potential(Coulomb(1.0))
+    beat = beat_period(state)
+    assert beat.period == pytest.approx(2 * math.pi / 0.375, rel=1e-7)
+    atomic_time_fs = physical_constants["atomic unit of time"][0] * 1e15  # CODATA
+    assert beat.femtoseconds == pytest.approx(2 * math.pi / 0.375 * atomic_time_fs, rel=1e-7)
