@@ -459,3 +459,22 @@ def test_the_default_view_does_not_look_down_a_hybrid_lobe():
         toward = camera_axes(fig.view)[0]
     angle = math.degrees(math.acos(abs(toward @ (np.ones(3) / math.sqrt(3)))))
     assert angle >= 30
+
+
+@pytest.mark.parametrize(("inked", "expected_side"), [("right", "left"), ("left", "right")])
+def test_the_phase_wheel_takes_the_emptier_top_corner(inked, expected_side):
+    # a panel drawn only in one top corner: the wheel must not be placed over the drawing
+    from orbviz.figures.options import FigureOptions
+    from orbviz.figures.page import Page, PanelImage
+
+    rgba = np.full((300, 400, 4), 255, dtype=np.uint8)
+    if inked == "right":
+        rgba[:120, 260:, :3] = 40
+    else:
+        rgba[:120, :140, :3] = 40
+    panel = PanelImage(rgba, half_height=10.0, complex_phase=True)
+    page = Page([panel], FigureOptions(size=(400, 300), scale_bar=False), (1, 1))
+    wheel = page.figure.axes[-1]  # the key is drawn last
+    x0, _, width, _ = wheel.get_position().bounds
+    side = "left" if x0 + width / 2 < 0.5 else "right"
+    assert side == expected_side

@@ -91,6 +91,15 @@ class PanelImage:
     members: tuple[tuple[str, tuple[int, int, int]], ...] = ()
 
 
+def _ink(rgba: np.ndarray, size: float, *, right: bool) -> float:
+    """Share of drawn pixels (not the background) in a top corner square of ``size`` pixels."""
+    n = max(1, int(size))
+    corner = rgba[:n, -n:] if right else rgba[:n, :n]
+    border = np.concatenate([rgba[0], rgba[-1], rgba[:, 0], rgba[:, -1]]).astype(int)
+    background = np.median(border, axis=0)  # the panel's edge is mostly background
+    return float((np.abs(corner.astype(int) - background).sum(axis=2) > 24).mean())
+
+
 @dataclass(frozen=True)
 class Geometry:
     """Where everything goes on a page, in pixels.
@@ -159,6 +168,7 @@ class Page:
         from matplotlib.figure import Figure
 
         self.options, self.layout, self.alt_text = options, layout, alt_text
+        self.images = list(panels)
         cols, rows = layout
         self.geometry = g = geometry(options, cols, rows)
         self.pixels = (g.width, g.height)
@@ -271,12 +281,24 @@ class Page:
         )
 
     def _wheel(self, strip: Any) -> None:
-        """Draw the key of a complex state, the phase wheel, at the top right or in the strip."""
+        """Draw the key of a complex state, the phase wheel, in the strip or a free corner.
+
+        On one panel it goes to whichever top corner covers the least of the drawing (the
+        right one on a tie, the left only without a title), so it does not sit on a lobe.
+        """
         g = self.geometry
         box = SMALL_PT / 72 * g.dpi
-        size = 9.0 * box if strip is None else 0.95 * g.bottom
-        left = g.width - 1.05 * size if strip is None else 0.02 * g.width
-        low = g.height - 1.05 * size if strip is None else 0.02 * g.bottom
+        if strip is not None:
+            size = 0.95 * g.bottom
+            _wheel(self.figure.add_axes(self._box(0.02 * g.width, 0.02 * g.bottom, size, size)))
+            return
+        size = min(9.0 * box, 0.3 * g.height)
+        low = g.height - 1.05 * size
+        left = g.width - 1.05 * size
+        rgba = self.images[0].rgba
+        seen = size * rgba.shape[1] / g.panel[0]  # the square in the panel image's pixels
+        if not self.options.title and _ink(rgba, seen, right=False) < _ink(rgba, seen, right=True):
+            left = 0.05 * size
         _wheel(self.figure.add_axes(self._box(left, low, size, size)))
 
     def _key(self, entries: Sequence[tuple[Sequence[int], str]], strip: Any) -> None:
