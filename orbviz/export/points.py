@@ -22,9 +22,9 @@ POINT_SUFFIXES = (".ply", ".csv", ".xyz", ".npy")
 
 
 def _colours(points: Points) -> np.ndarray:
-    from orbviz.surface.colors import phase_colors, sign_colors
+    from orbviz.surface.colors import point_colors
 
-    return sign_colors(points.phase) if points.real else phase_colors(points.phase)
+    return point_colors(points.phase, points.real)
 
 
 def _header(points: Points, units: str) -> str:

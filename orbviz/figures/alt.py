@@ -228,7 +228,7 @@ def _what(state: State) -> str:
     return f"{state.label} (a superposition)"
 
 
-def describe_panel(panel: Panel, *, units: str, colors: Sequence[str]) -> str:
+def describe_panel(panel: Panel, units: str, colors: Sequence[str]) -> str:
     """One panel in words: the state, the fraction, its lobes by phase, its nodes and its size."""
     state, mesh = panel.state, panel.mesh
     found = [lobe for body in mesh.bodies for lobe in lobes(body)]
@@ -287,8 +287,20 @@ def describe_panels(fig: Figure) -> str:
             )
         else:
             prefix = f"Panel {panel.label.split(' ')[0]} " if panel.label.startswith("(") else ""
-            texts.append(prefix + describe_panel(panel, units=units, colors=colors))
+            texts.append(prefix + _style_words(panel) + describe_panel(panel, units, colors))
     return " ".join(texts)
+
+
+def _style_words(panel: Panel) -> str:
+    """Say what is drawn when it is not the surface: dots, or a translucent density."""
+    if panel.cloud is not None:
+        return (
+            f"{len(panel.cloud):,} dots, positions of the electron drawn at random with "
+            "probability |psi|^2, in the phase colours; their shape follows "
+        )
+    if panel.volume is not None:
+        return "A translucent glow of |psi|^2 in the phase colours; its shape follows "
+    return ""
 
 
 def describe_figure(fig: Figure) -> str:

@@ -47,14 +47,15 @@ def volume_grid(state: State, level: float, options: FigureOptions) -> Any:
     """
     import pyvista
 
-    from orbviz.surface.colors import phase_colors, sign_colors
+    from orbviz.surface.colors import point_colors
 
     half = 1.05 * state.radial_quantile(_REACH)
     axis = np.linspace(-half, half, _VOLUME_GRID, dtype=np.float32)
     x, y, z = np.meshgrid(axis, axis, axis, indexing="ij")
     psi = state.psi(x.ravel(order="F"), y.ravel(order="F"), z.ravel(order="F"))
     density = np.abs(psi) ** 2
-    rgba = sign_colors(psi, options.colors) if state.is_real else phase_colors(np.angle(psi))
+    phase = np.sign(psi) if state.is_real else np.angle(psi)
+    rgba = point_colors(phase, state.is_real, options.colors)
     alpha = np.clip(_AT_LEVEL * np.sqrt(density / level), 0.0, _CAP)
     rgba[:, 3] = np.round(255 * alpha).astype(np.uint8)
     xyz = np.column_stack([x.ravel(order="F"), y.ravel(order="F"), z.ravel(order="F")])
@@ -91,14 +92,10 @@ def add_cloud(
     plotter: Any, options: FigureOptions, points: Points, *, prefix: str = ""
 ) -> list[str]:
     """Add the dots, in the phase colours, as small lit spheres (sized to the window)."""
-    from orbviz.surface.colors import phase_colors, sign_colors
+    from orbviz.surface.colors import point_colors
 
     keep = _cut(points.positions, options.cut)
-    colours = (
-        sign_colors(points.phase[keep], options.colors)
-        if points.real
-        else phase_colors(points.phase[keep])
-    )
+    colours = point_colors(points.phase[keep], points.real, options.colors)
     size = max(2.0, plotter.window_size[1] / 260)
     name = f"{prefix}cloud"
     plotter.add_points(

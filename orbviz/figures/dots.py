@@ -18,9 +18,10 @@ import numpy as np
 from orbviz._defaults import BOHR_IN_ANGSTROM
 from orbviz._options import checked
 from orbviz.figures.options import PlotOptions
+from orbviz.figures.planes import best_plane, panel_axes
 from orbviz.levels.sampling import sample
 from orbviz.states.state import State
-from orbviz.surface.colors import DEFAULT_PAIR, ColorPair, phase_colors, sign_colors
+from orbviz.surface.colors import DEFAULT_PAIR, ColorPair, point_colors
 
 __all__ = ["DotsData", "dots_figure"]
 
@@ -78,8 +79,6 @@ class DotsData:
 def _plane(state: State, options: PlotOptions) -> str:
     if options.plane is not None:
         return options.plane
-    from orbviz.figures.planes import best_plane
-
     return best_plane(state, state.radial_quantile(0.99))
 
 
@@ -127,24 +126,15 @@ def dots_figure(
     -------
     (matplotlib.figure.Figure, DotsData or list of DotsData)
     """
-    from matplotlib.figure import Figure
-
     opts = checked(options or PlotOptions(kind="dots"))
     states = list(state) if isinstance(state, (list, tuple)) else [state]
     datas = [_dots(s, opts) for s in states]  # type: ignore[arg-type]
     per_bohr, unit = (BOHR_IN_ANGSTROM, "Å") if opts.units == "angstrom" else (1.0, "bohr")
     reach = [np.percentile(np.abs(d.xy), 99) for d in datas if len(d.xy)]
     half = opts.extent or 1.1 * max(reach, default=1.0)
-    cols = min(len(states), 3)
-    rows = -(-len(states) // cols)
-    fig = Figure(
-        figsize=opts.inches((3.2 * cols + 0.4, 3.2 * rows + 0.5)),
-        dpi=opts.dpi,
-        layout="constrained",
-    )
-    axes = fig.subplots(rows, cols, squeeze=False).ravel()
+    fig, axes = panel_axes(len(states), opts, panel=(3.2, 3.2), extra=(0.4, 0.5))
     for ax, d in zip(axes, datas, strict=False):
-        rgba = sign_colors(d.phase, colors) if d.real else phase_colors(d.phase)
+        rgba = point_colors(d.phase, d.real, colors)
         # dot area in points^2: small enough that dense regions read as dense
         size = max(0.3, 4000.0 / max(len(d.xy), 1))
         ax.scatter(
@@ -161,8 +151,6 @@ def dots_figure(
         ax.set_xlabel(f"{d.plane[0]} ({unit})")
         ax.set_ylabel(f"{d.plane[1]} ({unit})")
         ax.set_title(f"{d.label}: {d.plane} plane", fontsize=9)
-    for ax in axes[len(states) :]:
-        ax.set_axis_off()
     shown = sum(len(d.xy) for d in datas)
     how = f"a slab {opts.slab * per_bohr:.3g} {unit} thick" if opts.slab else "projected"
     fig.suptitle(opts.title or f"{shown:,} dots drawn as |ψ|², {how}", fontsize=10)

@@ -1,12 +1,15 @@
-"""The planes through the nucleus that 2D figures show, and the one that shows a state best."""
+"""What 2D figures share: planes through the nucleus, the best of them, the grid of panels."""
 
 from __future__ import annotations
 
+from typing import Any
+
 import numpy as np
 
+from orbviz.figures.options import PlotOptions
 from orbviz.states.state import State
 
-__all__ = ["PLANES", "best_plane", "choose_plane", "plane_psi"]
+__all__ = ["PLANES", "best_plane", "choose_plane", "panel_axes", "plane_psi"]
 
 PLANES = {"xz": (0, 2), "xy": (0, 1), "yz": (1, 2)}
 
@@ -33,3 +36,26 @@ def choose_plane(state: State, axis: np.ndarray) -> str:
 def best_plane(state: State, half: float) -> str:
     """Return the plane through the nucleus holding the most probability within ``half``."""
     return choose_plane(state, np.linspace(-half, half, 101))
+
+
+def panel_axes(
+    count: int, options: PlotOptions, *, panel: tuple[float, float], extra: tuple[float, float]
+) -> tuple[Any, Any]:
+    """Return a figure of ``count`` panels, at most three a row, and its axes (unused ones off).
+
+    ``panel`` is one panel's natural size in inches and ``extra`` what the figure adds (a
+    colour bar, a title); the options' printed size overrides both.
+    """
+    from matplotlib.figure import Figure
+
+    cols = min(count, 3)
+    rows = -(-count // cols)
+    fig = Figure(
+        figsize=options.inches((panel[0] * cols + extra[0], panel[1] * rows + extra[1])),
+        dpi=options.dpi,
+        layout="constrained",
+    )
+    axes = fig.subplots(rows, cols, squeeze=False).ravel()
+    for ax in axes[count:]:
+        ax.set_axis_off()
+    return fig, axes

@@ -24,7 +24,7 @@ from orbviz._defaults import BOHR_IN_ANGSTROM, DEFAULTS
 from orbviz._options import checked
 from orbviz.figures.options import PlotOptions
 from orbviz.figures.page import PAGE_SUFFIXES, encode_figure
-from orbviz.figures.planes import choose_plane, plane_psi
+from orbviz.figures.planes import choose_plane, panel_axes, plane_psi
 from orbviz.levels.isovalue import enclosing_isovalue
 from orbviz.states.state import NodalSurfaces, State
 from orbviz.surface.colors import DEFAULT_PAIR, ColorPair
@@ -252,8 +252,6 @@ def slice_figure(
     -------
     (matplotlib.figure.Figure, SliceData or list of SliceData)
     """
-    from matplotlib.figure import Figure
-
     opts = checked(options or PlotOptions())
     states: list[State] = list(state) if isinstance(state, (list, tuple)) else [state]  # type: ignore[list-item]
     first = [_slice_data(s, opts, fraction, points, opts.extent) for s in states]
@@ -261,20 +259,11 @@ def slice_figure(
     datas = (
         [_slice_data(s, opts, fraction, points, half) for s in states] if len(states) > 1 else first
     )
-    cols = min(len(states), 3)
-    rows = -(-len(states) // cols)
-    fig = Figure(
-        figsize=opts.inches((3.4 * cols + 1.0, 3.1 * rows + 0.4)),
-        dpi=opts.dpi,
-        layout="constrained",
-    )
-    axes = fig.subplots(rows, cols, squeeze=False).ravel()
+    fig, axes = panel_axes(len(states), opts, panel=(3.4, 3.1), extra=(1.0, 0.4))
     image: Any = None
     for ax, s, d in zip(axes, states, datas, strict=False):
         image = _draw_slice(ax, d, s, opts, colors)
         ax.set_title(f"{s.label}: {d.plane} plane", fontsize=9)
-    for ax in axes[len(states) :]:
-        ax.set_axis_off()
     per_bohr, name = _unit(opts)
     bar = fig.colorbar(image, ax=list(axes[: len(states)]), shrink=0.85)
     bar.set_label(

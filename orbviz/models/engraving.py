@@ -22,7 +22,7 @@ from typing import Any
 import numpy as np
 
 from orbviz._defaults import LIMITS
-from orbviz._options import integer, number, option
+from orbviz._options import choice, integer, number, option
 from orbviz.errors import OptionError
 from orbviz.levels.sampling import MAX_POINTS, Points
 from orbviz.states.state import State
@@ -112,7 +112,7 @@ class SampleOptions:
     units: str = option(
         "bohr",
         "unit of the positions without a physical size",
-        lambda raw: _unit(raw),
+        choice("bohr", "angstrom"),
         metavar="{bohr,angstrom}",
     )
 
@@ -125,12 +125,6 @@ class SampleOptions:
         if self.block is not None and 2 * self.margin >= min(self.block):
             return [("margin", f"{self.margin:g} mm on each side leaves no room in the block")]
         return []
-
-
-def _unit(raw: Any) -> str:
-    if isinstance(raw, str) and raw.strip().lower() in ("bohr", "angstrom"):
-        return raw.strip().lower()
-    raise ValueError(f"expected bohr or angstrom, got {raw!r}")
 
 
 def prepare(points: Points, state: State, options: SampleOptions) -> tuple[Points, str, list[str]]:

@@ -60,10 +60,10 @@ def _cloud(state: State, count: int, scale: float, colors: Any) -> dict[str, str
     if count == 0:
         return None
     from orbviz.figures.cloud import cloud_points
-    from orbviz.surface.colors import linear_bytes, phase_colors, sign_colors
+    from orbviz.surface.colors import linear_bytes, point_colors
 
     points = cloud_points(state, count)
-    rgba = sign_colors(points.phase, colors) if points.real else phase_colors(points.phase)
+    rgba = point_colors(points.phase, points.real, colors)
     xyz = (points.positions * np.float32(scale)).astype("<f4")
     return {
         "positions": base64.b64encode(xyz.tobytes()).decode("ascii"),

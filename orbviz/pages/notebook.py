@@ -8,6 +8,7 @@ do not run scripts. Nothing here imports a notebook library.
 
 from __future__ import annotations
 
+import dataclasses
 import html
 from collections.abc import Sequence
 from typing import Any
@@ -79,7 +80,8 @@ class Shown:
         if self._png is None:
             from orbviz.figures.figure import figure, sheet
 
-            opts = build(FigureOptions, {**_changed(self.figure), "size": _STILL})
+            # the figure's looks at a still's size (a printed width would set the pixels)
+            opts = dataclasses.replace(self.figure, size=_STILL, scale=1.0, width=None, height=None)
             if len(self.states) == 1:
                 made = figure(self.states[0], opts, fraction=self.fraction)
             else:
@@ -87,18 +89,6 @@ class Shown:
             with made as fig:
                 self._png = fig.png()
         return self._png
-
-
-def _changed(options: FigureOptions) -> dict[str, Any]:
-    """Return the options that differ from the defaults, as a mapping the options model reads."""
-    import dataclasses
-
-    default = FigureOptions()
-    return {
-        f.name: getattr(options, f.name)
-        for f in dataclasses.fields(options)
-        if getattr(options, f.name) != getattr(default, f.name)
-    }
 
 
 def show(target: Any, /, **options: Any) -> Shown:

@@ -104,8 +104,13 @@ def _three_d(item: Item) -> bool:
     return bool(_wanted(item, made + POINT_OUTPUTS))
 
 
-def _styles(item: Item, states: list[State], looks: Any, out: Path) -> dict[Path, bytes]:
-    """Return the item's cloud and volume figures (one panel, or a sheet of several states)."""
+def _styles(
+    item: Item, states: list[State], looks: Any, out: Path, mesh: Any = None
+) -> dict[Path, bytes]:
+    """Return the item's cloud and volume figures (one panel, or a sheet of several states).
+
+    ``mesh``, the item's surface when it has one, frames the figure without building it again.
+    """
     from orbviz.figures.figure import figure, sheet
     from orbviz.states.make import oriented_set
 
@@ -116,7 +121,7 @@ def _styles(item: Item, states: list[State], looks: Any, out: Path) -> dict[Path
         shown = dataclasses.replace(looks, style=style)
         fraction = item.physics.fraction
         made = (
-            figure(states[0], shown, fraction=fraction)
+            figure(states[0], shown, fraction=fraction, mesh=mesh)
             if len(states) == 1 and not item.members
             else sheet(states, shown, fraction=fraction, oriented=oriented)
         )
@@ -214,7 +219,7 @@ def _surface_files(item: Item, state: State, out: Path) -> tuple[dict[Path, byte
     figures = _wanted(item, FIGURE_OUTPUTS)
     looks = dataclasses.replace(item.figure, title=item.title(state.label))
     files.update(_page(item, [state], looks.title, out))
-    files.update(_styles(item, [state], looks, out))
+    files.update(_styles(item, [state], looks, out, mesh))
     files.update(_points(item, state, out))
     if not figures:
         looks = dataclasses.replace(looks, size=THUMBNAIL, scale=1.0, width=None)

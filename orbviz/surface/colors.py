@@ -27,6 +27,7 @@ __all__ = [
     "ColorPair",
     "color_pair",
     "phase_colors",
+    "point_colors",
     "linear_bytes",
     "sign_colors",
 ]
@@ -96,6 +97,11 @@ def _cyclic_table(size: int = 512) -> np.ndarray:
     lab = np.stack([np.full(size, 68.0), 40.0 * np.cos(hue), 40.0 * np.sin(hue)], axis=-1)
     rgb = np.clip(lab2rgb(lab[None, :, :])[0], 0.0, 1.0)
     return np.round(255 * rgb).astype(np.uint8)
+
+
+def point_colors(phase: np.ndarray, real: bool, pair: ColorPair = DEFAULT_PAIR) -> np.ndarray:
+    """(N, 4) uint8 RGBA of sampled points: the sign colours (real) or the phase map."""
+    return sign_colors(phase, pair) if real else phase_colors(phase)
 
 
 def phase_colors(angle: np.ndarray) -> np.ndarray:
