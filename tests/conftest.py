@@ -121,6 +121,77 @@ def chromium_path() -> str:
     return exe
 
 
+def read_3mf(path):
+    """Read a 3MF with lib3mf: unit, build items, mesh objects, [(material, rgb, trimesh)].
+
+    The parts are told apart by each triangle's material, as a slicer would see them.
+    """
+    import lib3mf  # the 3MF Consortium's reference library, as an independent reader
+    import trimesh  # an independent closedness check of each part's triangles
+
+    model = lib3mf.get_wrapper().CreateModel()
+    model.QueryReader("3mf").ReadFromFile(str(path))
+    items = model.GetBuildItems()
+    count = 0
+    while items.MoveNext():
+        count += 1
+    objects = model.GetMeshObjects()
+    parts = []
+    while objects.MoveNext():
+        obj = objects.GetCurrentMeshObject()
+        vertices = np.array([v.Coordinates[:] for v in obj.GetVertices()])
+        faces = np.array([t.Indices[:] for t in obj.GetTriangleIndices()])
+        props = obj.GetAllTriangleProperties()
+        keys = np.array([(p.ResourceID, p.PropertyIDs[0]) for p in props])
+        for key in sorted({tuple(k) for k in keys.tolist()}):
+            group = model.GetBaseMaterialGroupByID(key[0])
+            colour = group.GetDisplayColor(key[1])
+            chosen = faces[np.all(keys == key, axis=1)]
+            mesh = trimesh.Trimesh(vertices, chosen, process=True)
+            parts.append((group.GetName(key[1]), (colour.Red, colour.Green, colour.Blue), mesh))
+    return model.GetUnit(), count, model.GetMeshObjects().Count(), parts
+
+
+def slicer_path() -> str:
+    """Debian's prusa-slicer, or skip (fail in CI, where .ci/run installs it)."""
+    import os
+    import shutil
+
+    import pytest
+
+    exe = shutil.which("prusa-slicer")
+    if exe is None:
+        if os.environ.get("CI"):
+            pytest.fail("prusa-slicer is not installed: .ci/run must install it")
+        pytest.skip("prusa-slicer not installed (apt-get install prusa-slicer)")
+    return exe
+
+
+def slice_model(*paths, out, export: str = "--export-gcode") -> list[str]:
+    """Run prusa-slicer from its command line on model files; return its complaints.
+
+    A complaint is any line of its output, other than its own trace and progress lines, that
+    says "warning", "error" or "not printable"; a non-zero exit is one too.
+    """
+    import subprocess
+
+    run = subprocess.run(
+        [slicer_path(), export, "-o", str(out), *map(str, paths)],
+        capture_output=True,
+        text=True,
+        timeout=600,
+        env={"HOME": str(out.parent), "PATH": "/usr/bin:/bin", "LC_ALL": "C.UTF-8"},
+    )
+    lines = (run.stdout + run.stderr).splitlines()
+    words = ("warning", "error", "not printable", "empty layer")
+    bad = [
+        line for line in lines if any(w in line.lower() for w in words) and "[trace]" not in line
+    ]
+    if run.returncode != 0:
+        bad.append(f"exit status {run.returncode}")
+    return bad
+
+
 def khronos_validate(path) -> dict:
     """Run the Khronos glTF validator (npm gltf-validator) on a file; return its report."""
     import json

@@ -15,7 +15,7 @@ from orbviz.export import write_bodies
 from orbviz.states.orbital import Orbital
 from orbviz.surface.mesh import build_mesh
 from orbviz.surface.options import MeshOptions
-from tests.conftest import khronos_validate
+from tests.conftest import khronos_validate, read_3mf
 
 
 @pytest.fixture(scope="module")
@@ -151,29 +151,15 @@ def test_3mf_round_trip_lib3mf(real_mesh, tmp_path):
 
     path = tmp_path / "a.3mf"
     write_bodies(real_mesh.bodies, path)
-    wrapper = lib3mf.get_wrapper()
-    model = wrapper.CreateModel()
-    model.QueryReader("3mf").ReadFromFile(str(path))
-    assert model.GetUnit() == lib3mf.ModelUnit.MilliMeter
-    objects = model.GetMeshObjects()
-    found = {}
-    while objects.MoveNext():
-        obj = objects.GetCurrentMeshObject()
-        resource, prop, has = obj.GetObjectLevelProperty()
-        assert has
-        group = model.GetBaseMaterialGroupByID(resource)
-        colour = group.GetDisplayColor(prop)
-        found[obj.GetName()] = (
-            obj.GetVertexCount(),
-            obj.GetTriangleCount(),
-            (colour.Red, colour.Green, colour.Blue),
-            obj.IsManifoldAndOriented(),
-        )
+    unit, items, objects, parts = read_3mf(path)
+    assert unit == lib3mf.ModelUnit.MilliMeter and items == 1 and objects == 1
+    found = {name: (rgb, mesh) for name, rgb, mesh in parts}
+    assert set(found) == {b.name for b in real_mesh.bodies}
     for body in real_mesh.bodies:
-        count_v, count_f, rgb, closed = found[body.name]
-        assert (count_v, count_f) == (len(body.vertices), len(body.faces))
+        rgb, mesh = found[body.name]
+        assert len(mesh.faces) == len(body.faces)
         assert rgb == tuple(int(c) for c in body.colors[0][:3])
-        assert closed
+        assert mesh.is_watertight and mesh.is_winding_consistent
 
 
 def test_default_phase_colours_in_the_file_are_tols_high_contrast_pair(real_mesh, tmp_path):
