@@ -33,6 +33,7 @@ __all__ = [
     "number",
     "option",
     "rules",
+    "size_pair",
     "text",
 ]
 
@@ -64,6 +65,8 @@ class Rule:
     switch : bool
         An on/off option whose default (None) is decided later: the command line gets both
         ``--name`` and ``--no-name``.
+    const : object or None
+        The value of the flag given on the command line without a value (``--marks`` alone).
     """
 
     help: str
@@ -74,6 +77,7 @@ class Rule:
     negate: bool = False
     key: str | None = None
     switch: bool = False
+    const: Any = None
 
 
 def option(
@@ -87,9 +91,10 @@ def option(
     negate: bool = False,
     key: str | None = None,
     switch: bool = False,
+    const: Any = None,
 ) -> Any:
     """Return a dataclass field with its :class:`Rule` (see the module docstring)."""
-    rule = Rule(help, convert, unit, flag, metavar, negate, key, switch)
+    rule = Rule(help, convert, unit, flag, metavar, negate, key, switch, const)
     return dataclasses.field(default=default, metadata={"rule": rule})
 
 
@@ -264,6 +269,30 @@ def choice(*values: str, allow_none: bool = False) -> Convert:
 
 
 _CONTROL = re.compile(r"[\x00-\x1f\x7f]")
+
+
+def size_pair(
+    low: tuple[float, float], high: tuple[float, float], *, allow_none: bool = False
+) -> Convert:
+    """Two lengths in mm written ``AxB`` or ``AxBmm`` (``6x3mm``), each within its range."""
+    pattern = re.compile(r"^\s*([0-9]*\.?[0-9]+)\s*x\s*([0-9]*\.?[0-9]+)\s*(mm)?\s*$", re.I)
+
+    def read(raw: Any) -> tuple[float, float]:
+        if isinstance(raw, (list, tuple)) and len(raw) == 2:
+            raw = f"{raw[0]}x{raw[1]}"
+        found = pattern.match(raw) if isinstance(raw, str) else None
+        if found is None:
+            raise ValueError(f"expected two lengths in mm such as 6x3mm, got {shown(raw)}")
+        pair = (float(found.group(1)), float(found.group(2)))
+        for value, lo, hi in zip(pair, low, high, strict=True):
+            if not lo <= value <= hi:
+                raise ValueError(
+                    f"expected {low[0]:g} to {high[0]:g} mm by {low[1]:g} to {high[1]:g} mm, "
+                    f"got {shown(raw)}"
+                )
+        return pair
+
+    return _nullable(allow_none, read)
 
 
 def text(max_chars: int, *, allow_none: bool = False, single_line: bool = True) -> Convert:

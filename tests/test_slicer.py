@@ -67,3 +67,16 @@ def test_colour_3mf_keeps_its_parts_in_place_through_the_slicer(tmp_path, capsys
 
         distance, _ = cKDTree(merged_after).query(moved)
         assert distance.max() < 1e-3
+
+
+@pytest.mark.parametrize("spec", MODELS)
+def test_slicer_accepts_every_kit_plate(spec, tmp_path, capsys):
+    out = tmp_path / "kit"
+    assert (
+        main(["model", spec, "--size", "60", "--grid", "72", "--kit", "--marks", "-o", str(out)])
+        == 0
+    )
+    plates = sorted(out.glob("plate-*.stl"))
+    assert len(plates) >= 3
+    for plate in plates:
+        assert slice_model(plate, out=tmp_path / (plate.stem + ".gcode")) == [], plate.name

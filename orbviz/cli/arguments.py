@@ -70,6 +70,8 @@ def add_options(parser: argparse.ArgumentParser, cls: type, *, skip: tuple[str, 
                 **common,
             )
         else:
+            if rule.const is not None:  # the flag alone means this value
+                common.update(nargs="?", const=rule.const)
             group.add_argument(
                 flag,
                 metavar=rule.metavar or (rule.key or name).upper(),

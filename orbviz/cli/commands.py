@@ -249,6 +249,25 @@ def plot(args: argparse.Namespace) -> int:
     return 0
 
 
+def _write_kit(built: Any, options: Any, states: list, target: Path) -> int:
+    """Split a built model into a kit and write its folder or .zip."""
+    from orbviz.models.kit import build_kit
+    from orbviz.models.kit_files import kit_files, write_kit
+
+    prefix = states[0].label.split("[")[0] if len(states) > 1 else states[0].label
+    kit = build_kit(built, options, prefix)
+    for text in kit.notes:
+        note(text, "note")
+    write_kit(kit_files(kit, options.bed_mm), target)
+    colours = sorted({p.color for p in kit.parts})
+    print(
+        f"wrote {target}: a kit of {len(kit.parts)} parts ({', '.join(colours)}), "
+        f"{sum(j.kind == 'pin' for j in kit.joints)} pins, clearance {kit.clearance:g} mm; "
+        "assembly.pdf shows how they go together"
+    )
+    return 0
+
+
 def model(args: argparse.Namespace) -> int:
     """Write a printable model in millimetres (STL, split STLs, or 3MF with colour parts)."""
     from orbviz.export import write_files
@@ -265,6 +284,8 @@ def model(args: argparse.Namespace) -> int:
     )
     for check in built.checks:
         note(check.message, check.level)
+    if options.kit:
+        return _write_kit(built, options, states, targets[0])
     files = built.files(args.output)
     facts = built.facts()
     if report_path is not None:

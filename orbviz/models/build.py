@@ -22,9 +22,11 @@ from orbviz._progress import progress
 from orbviz.errors import ModelError, OutputError
 from orbviz.levels.grid import box_half_width
 from orbviz.levels.isovalue import enclosing_isovalue
+from orbviz.models.features import Mark, add_marks
 from orbviz.models.options import ModelOptions
 from orbviz.models.printability import Check, printability
-from orbviz.models.solids import arrays, cylinder, support, to_manifold, union
+from orbviz.models.solids import arrays, support, to_manifold, union
+from orbviz.models.stand import stand
 from orbviz.states.state import State
 from orbviz.surface.checks import MeshFacts, mesh_facts
 from orbviz.surface.colors import RGBA, SET_PALETTE
@@ -47,6 +49,13 @@ def model_targets(path: str | os.PathLike[str], options: ModelOptions) -> list[P
     from orbviz.export import check_output
 
     path = Path(path)
+    if options.kit:
+        from orbviz.export import check_targets
+
+        if path.suffix and path.suffix.lower() != ".zip":
+            raise OutputError(f"cannot write {str(path)!r}: a kit is written to a folder or a .zip")
+        check_targets([path], folders=not path.suffix)
+        return [path]
     if options.split and path.suffix.lower() != ".stl":
         raise OutputError(f"cannot write {str(path)!r}: split parts are written as .stl files")
     (target,) = check_output(path, [".stl", ".3mf"])
@@ -80,6 +89,17 @@ class PrintModel:
         Printability findings.
     split : bool
         Written as one STL per colour part.
+    label : str
+        The text on the stand ("" for none).
+    grown : manifold3d.Manifold or None
+        For a kit: the support widened by the clearance, to be cut from the lobes.
+    sleeve : manifold3d.Manifold or None
+        For a kit: the support widened 0.4 mm more; what it meets in a lobe marks where the
+        rod or a spoke runs through it.
+    marks : list of Mark
+        The phase marks on the lobes.
+    notes : list of str
+        What the builder left out and why (reported with the checks).
     """
 
     solid: Any
@@ -89,6 +109,11 @@ class PrintModel:
     rod_mm: float
     checks: list[Check] = field(default_factory=list)
     split: bool = False
+    label: str = ""
+    grown: Any = None
+    sleeve: Any = None
+    marks: list[Mark] = field(default_factory=list)
+    notes: list[str] = field(default_factory=list)
 
     def __repr__(self) -> str:
         lo, hi = (np.array(b) for b in _bbox(self.solid))
@@ -151,6 +176,14 @@ class PrintModel:
         return write_files(self.files(path))
 
 
+def default_label(state: State | Sequence[State], fraction: float) -> str:
+    """Return the stand's default text: the orbital's label and the enclosed fraction."""
+    if isinstance(state, (list, tuple)):
+        return f"{state[0].label.split('[')[0]} · {100 * fraction:.3g}%"
+    one: State = state  # type: ignore[assignment]  # not a sequence: one state
+    return f"{one.label} · {100 * fraction:.3g}%"
+
+
 def _bbox(solid: Any) -> tuple[Any, Any]:
     box = solid.bounding_box()
     return box[:3], box[3:]
@@ -165,29 +198,30 @@ def _cut_box(cut: str) -> Any:
     return box.translate((0.0, 0.0 if cut == "quarter" else -big, -big))
 
 
-def _stand(solids: list[Any], rod_mm: float, size: float) -> Any:
-    """Return a round base plate under the solids, with a post up to the nucleus."""
-    import manifold3d
+def _assemble(
+    bodies: list[Body], scale: float, options: ModelOptions, rod_mm: float, label: str
+) -> tuple[Any, dict[str, Any], Any]:
+    """Return the solid, its disjoint colour parts and a kit's widened supports (scaled).
 
-    lo, _ = _bbox(union(solids))
-    thickness = max(2.0, 1.5 * rod_mm)
-    plate_z = lo[2] - 0.5 * rod_mm
-    plate = manifold3d.Manifold.cylinder(thickness, 0.3 * size, 0.3 * size, circular_segments=96)
-    plate = plate.translate((0.0, 0.0, plate_z - thickness))
-    post = cylinder(np.array([0.0, 0.0, plate_z - 0.5 * thickness]), np.zeros(3), 0.5 * rod_mm)
-    return plate + post
-
-
-def _assemble(bodies: list[Body], scale: float, options: ModelOptions, rod_mm: float) -> Any:
-    """Return the solid and disjoint colour parts at ``scale`` mm per bohr."""
+    The lengths are at ``scale`` mm per bohr; the widened supports (by the clearance, and by
+    0.4 mm more) are None unless the options ask for a kit.
+    """
     solids = {b.name: to_manifold(b.vertices * scale, b.faces) for b in bodies}
     box = _cut_box(options.cut) if options.cut is not None else None
     if box is not None:  # cut first, so that the support joins the pieces that remain
         solids = {k: v - box for k, v in solids.items()}
     pieces = [p for solid in solids.values() for p in solid.decompose()]
-    held = support(pieces, 0.5 * rod_mm)
-    if options.stand:
-        held = held + _stand([*solids.values(), held], rod_mm, options.size_mm)
+    held, grown = support(pieces, 0.5 * rod_mm, deep=options.kit), None
+    if options.stand or options.kit:
+        lowest = float(_bbox(union([*solids.values(), held]))[0][2])
+        base, _ = stand(lowest, rod_mm, options.size_mm, label)
+        if options.kit:  # the support widened by the clearance, and by 0.4 mm more
+            grown = tuple(
+                support(pieces, 0.5 * rod_mm, g, deep=True)
+                + stand(lowest, rod_mm, options.size_mm, "", g)[0]
+                for g in (options.clearance_mm, options.clearance_mm + 0.4)
+            )
+        held = held + base
     if box is not None:
         held = held - box
     parts = {"support": held}
@@ -195,7 +229,7 @@ def _assemble(bodies: list[Body], scale: float, options: ModelOptions, rod_mm: f
     for name, solid in solids.items():  # disjoint parts: each less everything taken before it
         parts[name] = solid - taken
         taken = taken + solid
-    return union([*solids.values(), held]), parts
+    return union([*solids.values(), held]), parts, grown
 
 
 def _set_bodies(
@@ -258,9 +292,11 @@ def build_model(
         bodies, meshes = mesh.bodies, [mesh]
     size = opts.size_mm
     scale = size / float(np.ptp(np.vstack([b.vertices for b in bodies]), axis=0).max())
+    label = default_label(state, fraction) if opts.label is None else opts.label
+    label = label if (opts.stand or opts.kit) else ""
     passes = progress(range(2), total=2, desc="orbviz model", unit="pass")
     for _ in passes:  # the stand changes the bounding box: rescale once more
-        solid, parts = _assemble(bodies, scale, opts, opts.rod)
+        solid, parts, grown = _assemble(bodies, scale, opts, opts.rod, label)
         lo, hi = (np.array(b) for b in _bbox(solid))
         longest = float((hi - lo).max())
         scale *= size / longest
@@ -276,7 +312,23 @@ def build_model(
         scale,  # the last pass's scale times factor: the finished model's mm per bohr
         opts.rod * factor,
         split=opts.split,
+        label=label,
+        grown=None if grown is None else grown[0].scale((factor,) * 3),
+        sleeve=None if grown is None else grown[1].scale((factor,) * 3),
     )
+    if opts.marks is not None:
+        result.parts, result.marks, skipped, glyphs = add_marks(
+            result.parts, opts.marks, opts.min_feature_mm
+        )
+        change = union(glyphs) if glyphs else None
+        if change is not None:
+            engraved = opts.marks == "engraved"
+            result.solid = result.solid - change if engraved else result.solid + change
+        if skipped:
+            result.notes.append(
+                f"{skipped} lobe(s) carry no mark: hidden inside another or too small for "
+                f"{opts.min_feature_mm:g} mm strokes"
+            )
     result.checks = printability(result, meshes, opts)
     errors = [c.message for c in result.checks if c.level == "error"]
     if errors:

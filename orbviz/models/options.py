@@ -1,16 +1,31 @@
-"""The model job's options: size, rod, thinnest feature, stand, cut, split, grid and colours."""
+"""The model job's options: size, rod, feature, stand, cut, split, marks, label, kit, colours."""
 
 from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import Any
 
 from orbviz._defaults import DEFAULTS, LIMITS
-from orbviz._options import boolean, choice, number, option
+from orbviz._options import Convert, boolean, choice, number, option, size_pair, text
 from orbviz.surface.colors import ColorPair
 from orbviz.surface.options import colors_option, grid_option
 
 __all__ = ["ModelOptions"]
+
+
+def _label() -> Convert:
+    """Read a stand label: text of up to 40 characters, or none (no label at all)."""
+    read = text(40)
+
+    def label(raw: Any) -> str | None:
+        if raw is None:
+            return None
+        if isinstance(raw, str) and raw.strip().lower() == "none":
+            return ""
+        return read(raw).strip()
+
+    return label
 
 
 @dataclass(frozen=True)
@@ -35,6 +50,18 @@ class ModelOptions:
         Samples per axis of the mesh.
     colors : pair of RGBA
         Phase colours of the colour parts.
+    marks : {None, "embossed", "engraved"}
+        A "+" on every positive lobe and a "-" on every negative one.
+    label : str or None, default: None (the orbital's label and fraction)
+        Text on the stand's front; ``""`` (``none``) for none.
+    kit : bool, default: False
+        Split into parts that print in one filament each and assemble (implies the stand).
+    clearance_mm : float, default: 0.2
+        Gap between a kit's joined parts (common FDM practice, no source).
+    magnets : (float, float) or None
+        Diameter and thickness of round magnets that hold each kit lobe's halves together.
+    bed_mm : (float, float), default: (220, 220)
+        The printer's bed, for laying out a kit's plates.
     """
 
     size_mm: float = option(
@@ -71,6 +98,43 @@ class ModelOptions:
     split: bool = option(False, "one STL per colour part (FILE-support.stl, ...)", boolean())
     grid: int = grid_option()
     colors: ColorPair = colors_option()
+    marks: str | None = option(
+        None,
+        "a + on positive lobes and a - on negative ones, raised (embossed) or cut (engraved)",
+        choice("embossed", "engraved", allow_none=True),
+        metavar="{embossed,engraved}",
+        const="embossed",
+    )
+    label: str | None = option(
+        None,
+        "text on the stand's front, or none (default: the orbital's label and fraction)",
+        _label(),
+        metavar="TEXT",
+    )
+    kit: bool = option(
+        False, "a kit of one-colour parts to assemble (-o FOLDER or .zip)", boolean()
+    )
+    clearance_mm: float = option(
+        0.2,
+        "gap between a kit's joined parts, 0.05 to 1 (0.2 is common FDM practice)",
+        number(0.05, 1.0, unit="mm"),
+        unit="mm",
+        key="clearance",
+        metavar="MM",
+    )
+    magnets: tuple[float, float] | None = option(
+        None,
+        "round magnets DxT mm holding each kit lobe's halves (2x1 to 20x10)",
+        size_pair((2.0, 1.0), (20.0, 10.0), allow_none=True),
+        metavar="DxTmm",
+    )
+    bed_mm: tuple[float, float] = option(
+        (220.0, 220.0),
+        "the printer's bed for a kit's plates, 50x50 to 1000x1000",
+        size_pair((50.0, 50.0), (1000.0, 1000.0)),
+        key="bed",
+        metavar="WxDmm",
+    )
 
     @property
     def rod(self) -> float:
@@ -78,7 +142,14 @@ class ModelOptions:
         return DEFAULTS.rod_share * self.size_mm if self.rod_mm is None else self.rod_mm
 
     def relations(self) -> list[tuple[str, str]]:
-        """Cross-option problems: the rod against the size and the thinnest feature."""
+        """Cross-option problems: the rod against the size and feature, kit-only options."""
+        if self.kit and (self.cut is not None or self.split):
+            name = "cut" if self.cut is not None else "split"
+            return [(name, f"a kit is made of halves and parts already: leave out {{{name}}}")]
+        if self.magnets is not None and not self.kit:
+            return [("magnets", "magnets hold the halves of a kit: add {kit}")]
+        if self.label and not (self.stand or self.kit):
+            return [("label", "a label goes on the stand: add {stand} or {kit}")]
         rod, size, least = self.rod, self.size_mm, self.min_feature_mm
         if rod > LIMITS.rod_share_max * size:
             return [

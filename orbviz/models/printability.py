@@ -112,7 +112,8 @@ def printability(
                     "make the model larger",
                 )
             )
-    if not options.stand and options.cut is None:
+    checks += [Check("note", text) for text in model.notes]
+    if not (options.stand or options.kit) and options.cut is None:
         checks.append(
             Check(
                 "note",
@@ -120,7 +121,7 @@ def printability(
                 "on the cut face",
             )
         )
-    overhang = _overhang_share(model.solid)
+    overhang = 0.0 if options.kit else _overhang_share(model.solid)  # a kit's halves lie flat
     if overhang > 0.05:
         checks.append(
             Check(

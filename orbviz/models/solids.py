@@ -15,7 +15,7 @@ import numpy as np
 
 from orbviz.errors import ModelError
 
-__all__ = ["arrays", "cylinder", "support", "to_manifold", "union"]
+__all__ = ["arrays", "cylinder", "pieces", "support", "to_manifold", "union"]
 
 
 def to_manifold(vertices: np.ndarray, faces: np.ndarray) -> Any:
@@ -40,6 +40,30 @@ def arrays(solid: Any) -> tuple[np.ndarray, np.ndarray]:
     )
 
 
+def pieces(solid: Any) -> list[Any]:
+    """Return the separate solid pieces of ``solid``, each with the cavities it holds.
+
+    manifold3d's decompose returns each closed surface on its own: a hollow shell comes back
+    as its outside and, with negative volume, its inside. Each cavity goes back to the
+    smallest piece whose box holds it.
+    """
+    import manifold3d
+
+    parts = solid.decompose()
+    outer = sorted((p for p in parts if p.volume() > 0), key=lambda p: p.volume())
+    holes: list[list[Any]] = [[] for _ in outer]
+    for cavity in (p for p in parts if p.volume() <= 0):
+        lo, hi = np.array(cavity.bounding_box()[:3]), np.array(cavity.bounding_box()[3:])
+        for k, piece in enumerate(outer):
+            box = np.array(piece.bounding_box())
+            if np.all(box[:3] <= lo + 1e-6) and np.all(hi <= box[3:] + 1e-6):
+                holes[k].append(cavity)
+                break
+    return [
+        manifold3d.Manifold.compose([p, *h]) if h else p for p, h in zip(outer, holes, strict=True)
+    ]
+
+
 def cylinder(a: np.ndarray, b: np.ndarray, radius: float) -> Any:
     """Make a cylinder from point a to point b (mm)."""
     import manifold3d
@@ -60,32 +84,49 @@ def union(items: list[Any]) -> Any:
     return manifold3d.Manifold.batch_boolean(items, manifold3d.OpType.Add)
 
 
-def support(pieces: list[Any], radius: float) -> Any:
-    """Rod along z through every piece the axis crosses, bead, and spokes to the other pieces."""
+def support(pieces: list[Any], radius: float, grow: float = 0.0, deep: bool = False) -> Any:
+    """Rod along z through every piece the axis crosses, bead, and spokes to the other pieces.
+
+    ``grow`` widens every rod, spoke and the bead by that much (the clearance a kit's parts
+    need around the support), keeping the layout of the support of ``radius``. ``deep``
+    spokes reach a third of the way into their piece, where a kit's pin finds room.
+    """
     import manifold3d
 
-    bead = manifold3d.Manifold.sphere(2.5 * radius, circular_segments=48)
-    near_axis = []
+    near_axis, on_rod = [], []
     for piece in pieces:
         v, _ = arrays(piece)
         close = v[(v[:, 0] ** 2 + v[:, 1] ** 2) < (1.5 * radius) ** 2]
+        on_rod.append(bool(close.size))
         if close.size:
             near_axis.append(close[:, 2])
-    parts = [bead]
+    parts, plain = [manifold3d.Manifold.sphere(2.5 * radius + grow, circular_segments=48)], []
+    plain.append(manifold3d.Manifold.sphere(2.5 * radius, circular_segments=48))
     if near_axis:
         z = np.concatenate(near_axis)
         lo, hi = min(z.min() + radius, -radius), max(z.max() - radius, radius)
-        parts.append(cylinder(np.array([0, 0, lo]), np.array([0, 0, hi]), radius))
-    held = union(parts)
-    for piece in pieces:
-        if not (piece ^ held).is_empty():
-            continue
+        parts.append(
+            cylinder(np.array([0, 0, lo - grow]), np.array([0, 0, hi + grow]), radius + grow)
+        )
+        plain.append(cylinder(np.array([0, 0, lo]), np.array([0, 0, hi]), radius))
+    held = union(plain)  # the layout is decided on the support of ``radius`` alone
+    spokes = []
+    least = 0.01 * max((p.volume() for p in pieces), default=0.0)
+    for piece, rod in zip(pieces, on_rod, strict=True):
+        touched = not (piece ^ held).is_empty()
+        if rod or (touched and (not deep or piece.volume() < least)):
+            continue  # held already (a kit's lobes get spokes for pins; specks do not)
         v, _ = arrays(piece)
         nearest = v[np.argmin(np.linalg.norm(v, axis=1))]
-        depth = min(3.0 * 2 * radius, 0.5 * float(np.ptp(v, axis=0).max()))
+        span = float(np.ptp(v, axis=0).max())
+        middle = v.mean(axis=0)
+        if deep and np.linalg.norm(middle) > 0.2 * span:  # a kit's spoke runs along the lobe
+            nearest = middle / np.linalg.norm(middle) * np.linalg.norm(nearest)
+        depth = max(6 * radius, span / 3) if deep else min(6 * radius, 0.5 * span)
         for target in (nearest, nearest * np.array([-1.0, -1.0, 1.0])):
             if np.min(np.linalg.norm(v - target, axis=1)) > 2 * radius:
                 continue  # the mirrored point is not on this piece
             direction = target / max(np.linalg.norm(target), 1e-9)
+            spokes.append(cylinder(np.zeros(3), target + (depth + grow) * direction, radius + grow))
             held = held + cylinder(np.zeros(3), target + depth * direction, radius)
-    return held
+    return union([*parts, *spokes])
