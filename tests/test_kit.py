@@ -225,3 +225,44 @@ def test_kit_options_are_refused_with_one_line(args, message, tmp_path, capsys):
 def test_kit_to_a_file_name_is_refused(tmp_path, capsys):
     assert main(["model", "2pz", "--kit", "-o", str(tmp_path / "k.stl")]) == 2
     assert "a kit is written to a folder or a .zip" in capsys.readouterr().err
+
+
+def test_codes_are_cut_into_the_hidden_face_only(kit):
+    # the same kit without codes, less the kit with them, is the letters: some volume per
+    # coded half, all of it within the 0.4 mm next to the face on the bed in the print pose
+    spec, model, built = kit
+    opts = ModelOptions(size_mm=60.0, grid=72, kit=True)
+    plain = build_kit(model, opts, spec, codes=False)
+    coded = [p for p in built.parts[1:] if p.code_mm > 0]
+    assert len(coded) >= len(built.parts[1:]) // 2  # most halves carry their code
+    for part in coded:
+        letters = plain.part(part.code).printed() - part.printed()
+        assert letters.volume() > 0.4 * 0.5 * part.code_mm  # mm^3: a few letters 0.4 mm deep
+        above = letters.trim_by_plane((0.0, 0.0, 1.0), 0.41)  # what lies above z = 0.41 mm
+        assert above.volume() < 1e-3, (part.code, above.volume())
+
+
+def test_scene_makes_a_kit_zip_with_its_exploded_view_as_thumbnail(tmp_path, capsys):
+    import zipfile
+
+    from PIL import Image
+
+    scene = tmp_path / "kits.toml"
+    scene.write_text(
+        '[[orbital]]\nspec = "2pz"\nname = "pz"\noutputs = ["kit.zip", "model.stl"]\n'
+        'grid = 64\nmodel = { marks = "engraved", label = "Lab B: 2pz", clearance = 0.25,'
+        " stand = true }\n"
+    )
+    out = tmp_path / "out"
+    assert main(["batch", str(scene), "-o", str(out), "--no-progress"]) == 0
+    names = zipfile.ZipFile(out / "pz-kit.zip").namelist()
+    assert "pz-kit/kit.json" in names and "pz-kit/assembly.png" in names
+    manifest = json.loads(zipfile.ZipFile(out / "pz-kit.zip").read("pz-kit/kit.json"))
+    assert manifest["clearance_mm"] == 0.25
+    assert (out / "pz-model.stl").stat().st_size > 10_000
+    with Image.open(out / "thumbs" / "pz.png") as thumb:
+        assert thumb.size == (320, 240)
+        # the exploded view: the kit's phase colours are in the picture (Tol's pair, 2021)
+        pixels = np.asarray(thumb.convert("RGB")).reshape(-1, 3).astype(int)
+    blue = np.abs(pixels - [0x00, 0x44, 0x88]).sum(axis=1) < 90
+    assert blue.mean() > 0.01

@@ -105,6 +105,9 @@ MODEL = [
     ("kit", "true", "model.kit: unknown key"),
     ("marks", '"raised"', "model.marks: expected embossed, engraved or none"),
     ("label", "3", "model.label: expected text"),
+    ("clearance", "2", "model.clearance: expected a number from 0.05 to 1 mm"),
+    ("magnets", '"big"', "model.magnets: expected two lengths in mm such as 6x3mm"),
+    ("bed", '"10x10"', "model.bed: expected 50 to 1000 mm"),
 ]
 PAGE = [
     ("levels", "[0.5, 2]", "page.levels: expected 1 to 5 fractions from 0.01 to 0.999"),
@@ -140,8 +143,7 @@ def test_every_key_of_every_table_is_listed_here():
         ("page", PageOptions),
         ("sample", SampleOptions),
     ]:
-        keys = set(external_keys(cls).values()) - shared - {"kind", "split"}
-        keys -= {"clearance", "magnets", "bed"}  # kit options: not in scenes (kit is listed)
+        keys = set(external_keys(cls).values()) - shared - {"kind", "split", "kit"}
         if table == "animate":
             keys |= {"grid"} - listed[table]  # the animation keeps its own grid
         assert keys <= listed[table], (table, keys - listed[table])

@@ -48,7 +48,24 @@ def _exploded(part: KitPart, kit: Kit) -> np.ndarray:
     lobe = 0.5 * (centre + partner)
     apart = centre - partner
     apart = apart / max(np.linalg.norm(apart), 1e-9)
-    return 0.25 * lobe + 0.12 * size * apart
+    return 0.3 * lobe + 0.22 * size * apart
+
+
+def _camera(kit: Kit) -> np.ndarray:
+    """Return the direction the view looks from: across the halves' parting, from above.
+
+    The halves part along their cut normals; seen along those they would hide each other, so
+    the view looks from 55 degrees round from the most common one, 25 degrees up.
+    """
+    normals = [p.pose[:3, :3].T @ np.array([0.0, 0.0, 1.0]) for p in kit.parts[1:]]
+    flat = [np.array([n[0], n[1], 0.0]) for n in normals if np.hypot(n[0], n[1]) > 0.5]
+    if flat:
+        main = np.sum([n if n @ flat[0] >= 0 else -n for n in flat], axis=0)
+        angle = np.arctan2(main[1], main[0]) + np.radians(55)
+    else:
+        angle = np.radians(-60)
+    up = np.radians(25)
+    return np.array([np.cos(angle) * np.cos(up), np.sin(angle) * np.cos(up), np.sin(up)])
 
 
 def _view(kit: Kit, width: int, height: int) -> np.ndarray:
@@ -71,13 +88,21 @@ def _view(kit: Kit, width: int, height: int) -> np.ndarray:
     plotter.add_point_labels(
         np.array(points), names, font_size=18, point_size=1, shape_opacity=0.8, always_visible=True
     )
-    plotter.view_xz()
-    plotter.camera.elevation = 20
-    plotter.camera.azimuth = 30
+    plotter.camera_position = [tuple(_camera(kit)), (0.0, 0.0, 0.0), (0.0, 0.0, 1.0)]
     plotter.reset_camera()
     image = plotter.screenshot(return_img=True)
     plotter.close()
     return np.asarray(image)
+
+
+def exploded_png(kit: Kit, size: tuple[int, int]) -> bytes:
+    """Return the exploded view alone as a PNG of ``size`` pixels (a contact-sheet thumbnail)."""
+    from PIL import Image
+
+    image = Image.fromarray(_view(kit, 2 * size[0], 2 * size[1]))
+    buffer = io.BytesIO()
+    image.resize(size, Image.Resampling.LANCZOS).save(buffer, format="PNG")
+    return buffer.getvalue()
 
 
 def assembly_sheet(kit: Kit) -> dict[str, bytes]:
@@ -96,12 +121,16 @@ def assembly_sheet(kit: Kit) -> dict[str, bytes]:
     text = figure.add_axes((0.56, 0.04, 0.42, 0.92))
     text.set_axis_off()
     lines = [f"Kit {kit.name}: {len(kit.parts)} parts, clearance {kit.clearance:g} mm", ""]
-    lines += ["Parts (code, colour):"]
+    lines += ["Parts (code, colour, code cut into the hidden face):"]
     for part in kit.parts:
-        lines.append(f"  {part.code:<14} {part.color}")
+        rgb = "#{:02X}{:02X}{:02X}".format(*kit.model.colors.get(part.color, (190,) * 3)[:3])
+        cut = f"{part.code_mm:.1f} mm" if part.code_mm else "-"
+        lines.append(f"  {part.code:<14} {part.color:<9} {rgb}  {cut}")
     lines += ["", "Assembly:"]
     lines += [f"  {k}. {step}" for k, step in enumerate(steps(kit), start=1)]
-    lines += ["", "Small parts and magnets: keep away from young children."]
+    magnets = any(j.kind == "magnet" for j in kit.joints)
+    lines += ["", "Small parts" + (" and magnets" if magnets else "") + ": keep away from"]
+    lines += ["young children; see the safety notes in the docs."]
     text.text(
         0.0,
         1.0,

@@ -19,6 +19,7 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from orbviz.errors import ModelError
+from orbviz.models.codes import engrave_codes
 from orbviz.models.features import frame
 from orbviz.models.options import ModelOptions
 from orbviz.models.solids import arrays, pieces, union
@@ -47,6 +48,8 @@ class KitPart:
         4 x 4 rigid motion from the assembled place to the print pose (flat face on z = 0).
     partner : str or None
         The code of the other half of the same lobe.
+    code_mm : float
+        Height of the code cut into its hidden face (0: none fitted).
     """
 
     code: str
@@ -54,6 +57,7 @@ class KitPart:
     solid: Any
     pose: np.ndarray
     partner: str | None = None
+    code_mm: float = 0.0
 
     @property
     def file(self) -> str:
@@ -223,6 +227,7 @@ def _halves(
     model: PrintModel,
     opts: ModelOptions,
     prefix: str,
+    codes: bool,
 ) -> tuple[list[KitPart], list[Joint], list[Any], list[Any]]:
     """Cut one lobe into two halves with pin sockets (and magnet sockets).
 
@@ -277,11 +282,15 @@ def _halves(
             )
         if sockets:
             upper, lower = upper - union(sockets), lower - union(sockets)
+    letters = 0.0
+    if codes:
+        spots = [j.centre for j in joints]
+        upper, lower, letters = engrave_codes(upper, lower, carved, normal, code, spots)
     flip = np.diag([1.0, -1.0, -1.0])
     turn = frame(normal).T  # the normal onto +z: the upper half's cut face looks down
     parts = [
-        KitPart(code + "a", name, upper, _pose(upper, turn), code + "b"),
-        KitPart(code + "b", name, lower, _pose(lower, flip @ turn), code + "a"),
+        KitPart(code + "a", name, upper, _pose(upper, turn), code + "b", letters),
+        KitPart(code + "b", name, lower, _pose(lower, flip @ turn), code + "a", letters),
     ]
     return parts, joints, pins, cuts
 
@@ -293,7 +302,7 @@ def _socket(spot: np.ndarray, direction: np.ndarray, radius: float, depth: float
     return cylinder(spot - 0.01 * direction, spot + depth * direction, radius)
 
 
-def build_kit(model: PrintModel, opts: ModelOptions, prefix: str) -> Kit:
+def build_kit(model: PrintModel, opts: ModelOptions, prefix: str, *, codes: bool = True) -> Kit:
     """Split a model built with ``kit`` into printable, keyed parts.
 
     Parameters
@@ -304,6 +313,8 @@ def build_kit(model: PrintModel, opts: ModelOptions, prefix: str) -> Kit:
         Its options: clearance, magnets, thinnest feature.
     prefix : str
         The start of every part code (the orbital's label).
+    codes : bool, default: True
+        Cut each half's code into its hidden cut face.
     """
     if model.grown is None or model.sleeve is None:
         raise ModelError("internal: the model was not built as a kit")
@@ -327,10 +338,15 @@ def build_kit(model: PrintModel, opts: ModelOptions, prefix: str) -> Kit:
         )
         for index, piece in enumerate(lobes, start=1):
             others = union([p for bits2 in found.values() for p in bits2 if p is not piece])
-            halves, joined, pinned, cuts = _halves(name, index, piece, others, model, opts, prefix)
+            halves, joined, pinned, cuts = _halves(
+                name, index, piece, others, model, opts, prefix, codes
+            )
             parts += halves
             joints += joined
             pins += pinned
+    missing = sum(1 for p in parts if p.code_mm == 0.0)
+    if missing and codes:
+        notes.append(f"{missing} half(s) have no room for their code on the cut face")
     support = union([model.parts["support"], *pins])
     base = KitPart(f"{prefix} S", "support", support, _pose(support, np.eye(3)))
     return Kit(prefix, [base, *parts], joints, opts.clearance_mm, model, notes)

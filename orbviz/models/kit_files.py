@@ -22,7 +22,7 @@ from orbviz.models.solids import arrays, union
 if TYPE_CHECKING:
     from orbviz.models.kit import Kit
 
-__all__ = ["kit_files", "plates"]
+__all__ = ["kit_files", "kit_zip", "plates", "write_kit"]
 
 GAP_MM = 5.0  # between parts on a plate (common practice, no source)
 
@@ -86,6 +86,7 @@ def kit_files(kit: Kit, bed: tuple[float, float]) -> dict[str, bytes]:
                 "file": "parts/" + p.file,
                 "plate": where[p.code],
                 "partner": p.partner,
+                "code_height_mm": round(p.code_mm, 3),
                 "volume_mm3": round(p.solid.volume(), 3),
                 "flat_face_mm2": round(p.flat_area(), 3),
                 "print_to_model": np.linalg.inv(p.pose).round(9).tolist(),
@@ -112,16 +113,23 @@ def kit_files(kit: Kit, bed: tuple[float, float]) -> dict[str, bytes]:
     return files
 
 
+def kit_zip(files: dict[str, bytes], folder: str) -> bytes:
+    """Return the kit's files as a .zip holding one folder of that name."""
+    buffer = io.BytesIO()
+    with zipfile.ZipFile(buffer, "w", zipfile.ZIP_DEFLATED) as archive:
+        for name, data in sorted(files.items()):
+            info = zipfile.ZipInfo(f"{folder}/{name}", date_time=(1980, 1, 1, 0, 0, 0))
+            info.compress_type = zipfile.ZIP_DEFLATED
+            archive.writestr(info, data)
+    return buffer.getvalue()
+
+
 def write_kit(files: dict[str, bytes], target: Path) -> list[Path]:
     """Write the kit as a folder (replaced as a whole) or one .zip; all or nothing."""
     from orbviz.export import atomic_folder, write_files
 
     if target.suffix.lower() == ".zip":
-        buffer = io.BytesIO()
-        with zipfile.ZipFile(buffer, "w", zipfile.ZIP_DEFLATED) as archive:
-            for name, data in sorted(files.items()):
-                archive.writestr(f"{target.stem}/{name}", data)
-        return write_files({target: buffer.getvalue()})
+        return write_files({target: kit_zip(files, target.stem)})
     with atomic_folder(target) as temp:
         for name, data in files.items():
             path = temp / name

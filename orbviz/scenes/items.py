@@ -43,7 +43,7 @@ STYLE_OUTPUTS = tuple(f"{style}.{fmt}" for style in ("cloud", "volume") for fmt 
 POINT_OUTPUTS = ("points.ply", "points.csv", "points.xyz", "points.npy")  # orbviz sample
 ANIMATION_OUTPUTS = ("gif", "mp4")
 MESH_OUTPUTS = ("glb", "gltf", "obj", "stl", "ply", "3mf")
-MODEL_OUTPUTS = ("model.stl", "model.3mf")
+MODEL_OUTPUTS = ("model.stl", "model.3mf", "kit.zip")  # kit.zip: orbviz model --kit
 PAGE_OUTPUTS = ("html",)  # the interactive page
 OUTPUTS = (
     *FIGURE_OUTPUTS,

@@ -50,8 +50,8 @@ _SHELL_MAX = 12
 _PHYSICS = {v: k for k, v in external_keys(Physics).items()}
 _SHARED = {"grid", "colors"}  # common keys that go into the render and model tables
 _RENDER = {v: k for k, v in external_keys(FigureOptions).items() if v not in _SHARED}
-# split parts and kits write several files per item: the command line's jobs, not a scene's
-_NOT_IN_SCENES = {"split", "kit", "clearance", "magnets", "bed"}
+# split parts write several files per item, the command line's job; a kit is one .zip
+_NOT_IN_SCENES = {"split", "kit"}  # a kit is the output "kit.zip"
 _MODEL = {v: k for k, v in external_keys(ModelOptions).items() if v not in _SHARED | _NOT_IN_SCENES}
 _PLOT = {v: k for k, v in external_keys(PlotOptions).items() if v != "kind"}  # the output names it
 _ANIMATE = {v: k for k, v in external_keys(AnimationOptions).items() if v != "colors"}

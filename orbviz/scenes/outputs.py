@@ -194,6 +194,18 @@ def _level_numbers(item: Item, state: State) -> dict[str, Any]:
     return {"isovalue": iso.level, "fraction": iso.fraction}
 
 
+def _kit(item: Item, state: State, mesh: Any) -> tuple[Any, bytes]:
+    """Return an item's print kit and its .zip (the item's model options, as a kit)."""
+    from orbviz.models.build import build_model
+    from orbviz.models.kit import build_kit
+    from orbviz.models.kit_files import kit_files, kit_zip
+
+    options = dataclasses.replace(item.model, kit=True, split=False, cut=None)
+    built = build_model(state, options, fraction=item.physics.fraction, mesh=mesh)
+    kit = build_kit(built, options, state.label)
+    return kit, kit_zip(kit_files(kit, options.bed_mm), f"{item.name}-kit")
+
+
 def _surface_files(item: Item, state: State, out: Path) -> tuple[dict[Path, bytes], dict[str, Any]]:
     """Return the figures, meshes and models of one state's surface, and the thumbnail.
 
@@ -209,13 +221,17 @@ def _surface_files(item: Item, state: State, out: Path) -> tuple[dict[Path, byte
     files: dict[Path, bytes] = {}
     for kind in _wanted(item, MESH_OUTPUTS):
         files.update(encode_bodies(mesh.bodies, out / item.file_of(kind), scale=1.0, units="bohr"))
-    model = None
-    if _wanted(item, MODEL_OUTPUTS):
-        # the figure's mesh serves the model too, unless a fixed extent changed its box
-        shared = mesh if item.figure.extent is None else None
+    model = kit = None
+    # the figure's mesh serves the model too, unless a fixed extent changed its box
+    shared = mesh if item.figure.extent is None else None
+    if [k for k in _wanted(item, MODEL_OUTPUTS) if k != "kit.zip"]:
         model = build_model(state, item.model, fraction=fraction, mesh=shared)
         for kind in _wanted(item, MODEL_OUTPUTS):
-            files.update(model.files(out / item.file_of(kind)))
+            if kind != "kit.zip":
+                files.update(model.files(out / item.file_of(kind)))
+    if "kit.zip" in item.outputs:
+        kit, data = _kit(item, state, shared)
+        files[out / item.file_of("kit.zip")] = data
     figures = _wanted(item, FIGURE_OUTPUTS)
     looks = dataclasses.replace(item.figure, title=item.title(state.label))
     files.update(_page(item, [state], looks.title, out))
@@ -234,6 +250,11 @@ def _surface_files(item: Item, state: State, out: Path) -> tuple[dict[Path, byte
             if not figures:
                 alt = f"Printable model ({item.model.size_mm:g} mm) of: {alt}"
         files[out / "thumbs" / f"{item.name}.png"] = fig.thumbnail(THUMBNAIL)
+    if kit is not None and not figures:  # a kit's thumbnail is its exploded view
+        from orbviz.models.assembly import exploded_png
+
+        files[out / "thumbs" / f"{item.name}.png"] = exploded_png(kit, THUMBNAIL)
+        alt = f"Print kit of {len(kit.parts)} parts ({item.model.size_mm:g} mm) of: {alt}"
     report = mesh.report()
     numbers = {
         "isovalue": report["isovalue"],
