@@ -243,7 +243,11 @@ def _halves(
         )
     code = f"{prefix} {SIGN_CODES.get(name, name)}{index}"
     pins, cuts, joints = [], [], []
-    sleeve = model.sleeve ^ piece
+    import manifold3d
+
+    # where the rod or a spoke runs through the lobe, away from the bead (where they all meet)
+    bead = manifold3d.Manifold.sphere(2.5 * 0.5 * rod + opts.clearance_mm + rod, 48)
+    sleeve = (model.sleeve ^ piece) - bead
     for centre, along, below, above in _pins(piece, sleeve, normal, rod, opts):
         across = np.cross(normal, along)
         axes = np.column_stack([across, along, normal])
