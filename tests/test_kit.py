@@ -154,6 +154,14 @@ def test_marks_sit_on_lobes_of_their_phase(spec, style):
     facts = model.facts()
     assert facts.watertight and facts.solids == 1
     plain = build_model(api.state(spec), ModelOptions(size_mm=60.0, grid=72, stand=True))
+    for mark in model.marks:  # the relief, measured: a ray down the normal onto the glyph's foot
+        start = mark.foot + 30 * mark.normal
+        end = mark.foot - 5 * mark.normal
+        hit = model.solid.ray_cast(tuple(start), tuple(end))[0].position
+        bare = plain.solid.ray_cast(tuple(start), tuple(end))[0].position
+        height = float((np.asarray(hit) - np.asarray(bare)) @ mark.normal)
+        # embossed: stands >= 1 mm out; engraved: cut >= 1 mm in (the minimum)
+        assert (height if style == "embossed" else -height) >= 1.0 - 1e-3, (mark, height)
     change = facts.volume - plain.facts().volume
     assert change > 0 if style == "embossed" else change < 0
 
