@@ -179,7 +179,7 @@ def test_numerically_degenerate_mixtures_do_not_move(capsys, tmp_path, spec, pot
     out = tmp_path / "a.gif"
     status = main(["animate", spec, "--potential", potential, "--frames", "2", "-o", str(out)])
     err = capsys.readouterr().err
-    assert status == 2 and "does not move" in err and "solver's reach" in err
+    assert status == 2 and "does not move" in err and "solver's error estimates" in err
     assert not out.exists()
 
 

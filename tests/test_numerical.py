@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import json
 import math
 
 import numpy as np
@@ -145,3 +146,81 @@ def test_a_comma_in_a_comment_does_not_make_a_table_comma_separated(tmp_path):
     path = tmp_path / "coulomb.txt"
     np.savetxt(path, np.column_stack([r, -1.0 / r]), header="r (bohr), V (hartree)")
     assert solve_radial(Tabulated.from_file(path), 2, 1).energy == pytest.approx(-0.125, rel=1e-4)
+
+
+# ---------------------------------------------------------------- the solver's stated accuracy
+# Hydrogen: E = -1/2n^2 (Bohr; Griffiths, Introduction to QM, eq. 4.70), <r> = (3n^2 - l(l+1))/2
+# (Bethe & Salpeter, Quantum Mechanics of One- and Two-Electron Atoms, eq. 3.24), radial nodes
+# at n x / 2 for the roots x of the generalised Laguerre polynomial L_{n-l-1}^{2l+1}
+# (scipy.special.roots_genlaguerre, an independent implementation).
+HYDROGEN_UP_TO_12 = [(n, l) for n in range(1, 13) for l in (0, 1, 2) if l < n]
+
+
+@pytest.mark.parametrize(("n", "l"), HYDROGEN_UP_TO_12)
+def test_hydrogen_to_n_12_within_the_stated_accuracy(n, l):
+    from scipy.special import roots_genlaguerre
+
+    from orbviz.states.numerical import solve_radial
+    from orbviz.states.potentials import parse_potential
+
+    s = solve_radial(parse_potential("coulomb"), n, l)
+    exact = -0.5 / n**2
+    assert abs(s.energy - exact) <= 1e-9 * abs(exact)  # energies to 1e-9 relative
+    assert abs(s.expectation(1) - (3 * n * n - l * (l + 1)) / 2) <= 1e-6  # <r> to 1e-6 bohr
+    if n - l - 1:
+        x, _ = roots_genlaguerre(n - l - 1, 2 * l + 1)
+        assert np.abs(s.node_radii() - n * x / 2).max() <= 1e-6  # nodes to 1e-6 bohr
+    assert 0 < s.error < 1e-7 * abs(exact)  # the error estimate is given, and an upper one
+
+
+@pytest.mark.parametrize("big_n", range(11))
+def test_harmonic_well_levels_to_N_10(big_n):
+    # E = (2 n_r + l + 3/2) omega, the 3D isotropic oscillator (Sakurai & Napolitano, Modern
+    # Quantum Mechanics; from memory); here n = n_r + l + 1
+    from orbviz.states.numerical import solve_radial
+    from orbviz.states.potentials import Harmonic
+
+    omega = 0.37
+    for l in range(big_n % 2, big_n + 1, 2):
+        n_r = (big_n - l) // 2
+        s = solve_radial(Harmonic(omega), n_r + l + 1, l)
+        assert s.energy == pytest.approx((big_n + 1.5) * omega, rel=1e-9)
+
+
+def test_hulthen_potential_given_as_a_table(tmp_path):
+    # V = -delta e^{-delta r} / (1 - e^{-delta r}) (Z = 1): the s levels are known in closed
+    # form, E_n = -(1 - n^2 delta / 2)^2 / (2 n^2) (L. Hulthen, Ark. Mat. Astron. Fys. 28A (1942);
+    # e.g. Fluegge, Practical Quantum Mechanics, problem 68). Read from a file through the same
+    # route as --potential table:FILE, with a comment line whose commas are not separators.
+    from orbviz.states.numerical import solve_radial
+    from orbviz.states.potentials import parse_potential
+
+    delta = 0.05
+    r = np.geomspace(1e-6, 400.0, 4000)
+    v = -delta * np.exp(-delta * r) / -np.expm1(-delta * r)
+    table = tmp_path / "hulthen.dat"
+    rows = "".join(f"{a:.17g} {b:.17g}\n" for a, b in zip(r, v, strict=True))
+    table.write_text("# r (bohr), V (hartree)\n" + rows)
+    potential = parse_potential(f"table:{table}")
+    for n in (1, 2, 3, 4):
+        exact = -((1 - n * n * delta / 2) ** 2) / (2 * n * n)
+        # the table's cubic interpolation limits it (docs/spec.md): 1e-9 relative here
+        assert solve_radial(potential, n, 0).energy == pytest.approx(exact, rel=1e-9)
+
+
+@pytest.mark.parametrize(
+    ("spec", "potential", "size"),
+    [
+        ("10,4,2", "coulomb", 100),  # n^2 (Griffiths eq. 4.89)
+        ("2pz", "coulomb", 4),
+        ("3s", "harmonic:0.37", 15),  # N = 4: (N + 1)(N + 2)/2 (Sakurai; from memory)
+        ("6,2,1", "harmonic:0.5", 45),  # N = 8
+    ],
+)
+def test_level_sizes_under_a_potential(capsys, spec, potential, size):
+    from orbviz.cli import main
+
+    assert main(["info", spec, "--potential", potential, "--json"]) == 0
+    info = json.loads(capsys.readouterr().out)
+    assert info["degeneracy"] == size
+    assert 0 < info["energy_error_hartree"] < 1e-8 * abs(info["energy_hartree"])

@@ -35,7 +35,9 @@ def test_info_for_a_harmonic_state(capsys):
     assert info["mean_radius_bohr"] == pytest.approx(
         gamma(l + 2) / gamma(l + 1.5) / math.sqrt(W), rel=1e-6
     )
-    assert info["radial_nodes"] == 0 and info["degeneracy"] == 5
+    # the level N = 2 n_r + l = 2 holds 2d and 3s... (N + 1)(N + 2)/2 = 6 states (the isotropic
+    # oscillator's degeneracy, Sakurai & Napolitano, Modern Quantum Mechanics; from memory)
+    assert info["radial_nodes"] == 0 and info["degeneracy"] == 6
     assert "harmonic" in info["potential"]
 
 

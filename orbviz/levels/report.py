@@ -139,7 +139,12 @@ def _energy_lines(info: dict[str, Any]) -> list[str]:
         energy += "  (expectation value)"
     else:
         energy += f"  (degeneracy {info['degeneracy']}, spin not counted)"
-    return [f"energy        {energy}"]
+    lines = [f"energy        {energy}"]
+    if info.get("energy_error_hartree") is not None:
+        lines.append(
+            f"              solver's error estimate {info['energy_error_hartree']:.2g} hartree"
+        )
+    return lines
 
 
 def _node_lines(info: dict[str, Any], units: str) -> list[str]:

@@ -61,17 +61,23 @@ class Beat:
         return self.period * atomic_time_fs()
 
 
-NUMERICAL_LEVELS = 1e-7  # relative: numerically solved energies closer than this are one level
+LEVEL_MARGIN = 10.0  # numerical levels within this many times their error estimates are one
 
 
-def _levels(energies: list[float], tolerance: float) -> list[float]:
-    """Merge sorted energies that agree within ``tolerance`` (relative) into one level each."""
-    merged: list[float] = []
-    for e in energies:
-        if merged and abs(e - merged[-1]) <= tolerance * abs(merged[-1]):
-            continue
-        merged.append(e)
-    return merged
+def _levels(energies: list[tuple[float, float]]) -> list[float]:
+    """Merge sorted (energy, error) pairs into levels.
+
+    Two energies within LEVEL_MARGIN times their summed error estimates, or 1e-12 relative
+    (rounding), are one level.
+    """
+    merged: list[tuple[float, float]] = []
+    for e, err in energies:
+        if merged:
+            last, last_err = merged[-1]
+            if abs(e - last) <= LEVEL_MARGIN * (err + last_err) + 1e-12 * abs(last):
+                continue
+        merged.append((e, err))
+    return [e for e, _ in merged]
 
 
 def beat_period(orbital: Orbital, /) -> Beat:
@@ -85,11 +91,10 @@ def beat_period(orbital: Orbital, /) -> Beat:
     StationaryError
         If all components have one energy (a degenerate superposition does not move).
     """
-    # energies the solver cannot tell apart are one level: a numerical energy is good to
-    # ~1e-9 relative (docs/spec.md), so two within 1e-7 are taken as equal
-    tolerance = 1e-12 if orbital.potential is None else NUMERICAL_LEVELS
+    # energies the solver cannot tell apart (within its own error estimates) are one level
+    pairs = {(n, l) for (n, l, _), _ in orbital.basis}
     energies = _levels(
-        sorted(orbital.shell_energy(n, l) for (n, l, _), _ in orbital.basis), tolerance
+        sorted((orbital.shell_energy(n, l), orbital.shell_error(n, l)) for n, l in pairs)
     )
     if len(energies) < 2:
         raise StationaryError(
@@ -98,7 +103,7 @@ def beat_period(orbital: Orbital, /) -> Beat:
             + (
                 ""
                 if orbital.potential is None
-                else f" (within {tolerance:g} relative, the numerical solver's reach)"
+                else " (within the numerical solver's error estimates)"
             )
             + ", so |psi|^2 is the same at all times"
         )

@@ -412,15 +412,15 @@ class Orbital:
             return slater_energy(n, self.Z, self.mass_ratio)
         return energy_hartree(n, Z=self.Z, mass_ratio=self.mass_ratio)
 
+    def shell_error(self, n: int, l: int) -> float:
+        """Estimated error of the shell's energy, hartree (0 for a closed form)."""
+        return self.solutions[(n, l)].error if self.potential is not None else 0.0
+
     def node_radii(self, n: int, l: int) -> np.ndarray:
         """Radial node radii (bohr): closed form, or sign changes of the numerical R."""
         if self.potential is None:
             return radial_node_radii(n, l, Z=self.length_charge)
-        s = self.solutions[(n, l)]
-        big = np.abs(s.R) > 1e-10 * np.abs(s.R).max()
-        r, v = s.r[big], s.R[big]
-        i = np.flatnonzero(np.sign(v[1:]) != np.sign(v[:-1]))
-        return r[i] - v[i] * (r[i + 1] - r[i]) / (v[i + 1] - v[i])  # linear root
+        return self.solutions[(n, l)].node_radii()
 
     def properties(self) -> Properties:
         """Energy, degeneracy, nodes and radii (see :mod:`orbviz.states.properties`)."""

@@ -82,7 +82,9 @@ def _degeneracy(orbital: Orbital) -> int | None:
     """Return the size of the state's energy level (None for a mixture of levels).
 
     n^2 for a hydrogen-like level; a screened atom's Slater group (1s 1, ns+np 4, nd 5, nf 7:
-    they share Z_eff and n*); 2l + 1 (the central-potential minimum) otherwise.
+    they share Z_eff and n*); under a potential, the sum of 2l' + 1 over every shell whose
+    level the solver finds within its error estimates of this one
+    (:func:`orbviz.states.numerical.level_members`).
     """
     if not orbital.is_energy_eigenstate:
         return None
@@ -92,7 +94,10 @@ def _degeneracy(orbital: Orbital) -> int | None:
         return slater_group_size(*orbital.shells[0])
     if orbital.potential is None:
         return orbital.shells[0][0] ** 2
-    return 2 * orbital.shells[0][1] + 1
+    from orbviz.states.numerical import level_members
+
+    members = level_members(orbital.potential, orbital.solutions[orbital.shells[0]])
+    return sum(2 * l + 1 for _, l in members)
 
 
 def _angular_nodes(state: Atom | None) -> int | None:
@@ -124,7 +129,16 @@ def orbital_properties(orbital: Orbital) -> Properties:
         radial_node_radii=tuple(orbital.node_radii(*one_shell).tolist()) if one_shell else None,
         mean_radius=mean_radius(orbital),
         most_probable_radius=most_probable_radius_of(orbital),
+        extra=_solver_numbers(orbital),
     )
+
+
+def _solver_numbers(orbital: Orbital) -> dict[str, float]:
+    """Return the numerical solver's error estimate of the energy (states under a potential)."""
+    if orbital.potential is None:
+        return {}
+    error = max(orbital.shell_error(n, l) for n, l in orbital.shells)
+    return {"energy_error_hartree": error}
 
 
 def _polar_roots(l: int, m: int) -> list[float]:
