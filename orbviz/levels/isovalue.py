@@ -185,6 +185,7 @@ def _checked(
     else:
         check = ShellQuadrature(state.centres[0].orbital, 2)
         achieved = float(check.table.above(at)[0])
-    return dataclasses.replace(
-        iso, enclosed_fraction=achieved, max_radius=check.max_radius(iso.level)
-    )
+    from orbviz.levels.reach import polished_max_radius
+
+    reach = polished_max_radius(state, iso.level, check.max_radius(iso.level))
+    return dataclasses.replace(iso, enclosed_fraction=achieved, max_radius=reach)

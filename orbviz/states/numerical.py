@@ -150,6 +150,53 @@ def _state(
     raise NoBoundState(f"the solver finds no level with {k} radial nodes near {shift:.4g} hartree")
 
 
+def _bands(potential: Potential, l: int, x: np.ndarray) -> tuple[np.ndarray, ...]:
+    """Return the three diagonals of L and of M (sub, main, super) of the Numerov pencil."""
+    h = float(x[1] - x[0])
+    r = np.exp(x)
+    q = (l + 0.5) ** 2 + 2.0 * r * r * potential(r)
+    main_l = 0.5 * (2.0 / h**2 + 10.0 * q / 12.0)
+    sub_l = 0.5 * (-1.0 / h**2 + q[:-1] / 12.0)  # row i + 1, column i
+    sup_l = 0.5 * (-1.0 / h**2 + q[1:] / 12.0)  # row i, column i + 1
+    w = r * r
+    return sub_l, main_l, sup_l, w[:-1] / 12.0, 10.0 * w / 12.0, w[1:] / 12.0
+
+
+def _refine(
+    potential: Potential, l: int, x: np.ndarray, energy: float, guess: np.ndarray
+) -> tuple[float, np.ndarray]:
+    """Polish a level on a finer grid by Rayleigh-quotient inverse iteration (banded solves).
+
+    ``guess`` is the coarser grid's phi interpolated onto ``x``; each step solves
+    (L - E M) y = M phi, O(N), and the quotient converges quadratically.
+    """
+    from scipy.linalg import solve_banded
+
+    sub_l, main_l, sup_l, sub_m, main_m, sup_m = _bands(potential, l, x)
+
+    def times(sub: np.ndarray, main: np.ndarray, sup: np.ndarray, v: np.ndarray) -> np.ndarray:
+        out = main * v
+        out[1:] += sub * v[:-1]
+        out[:-1] += sup * v[1:]
+        return out
+
+    phi = guess / np.linalg.norm(guess)
+    for _ in range(12):
+        bands = np.zeros((3, x.size))
+        bands[0, 1:] = sup_l - energy * sup_m
+        bands[1] = main_l - energy * main_m
+        bands[2, :-1] = sub_l - energy * sub_m
+        y = solve_banded((1, 1), bands, times(sub_m, main_m, sup_m, phi))
+        phi = y / np.linalg.norm(y)
+        lphi, mphi = times(sub_l, main_l, sup_l, phi), times(sub_m, main_m, sup_m, phi)
+        new = float(phi @ lphi / (phi @ mphi))
+        if abs(new - energy) <= 1e-15 * max(abs(new), 1e-300):
+            energy = new
+            break
+        energy = new
+    return energy, phi
+
+
 def _estimate(potential: Potential, l: int, k: int, r_max: float) -> float:
     """Estimate the level roughly (a shift for _state): coarse grid, symmetric form, r >= 1e-3."""
     from scipy.linalg import eigh_tridiagonal
@@ -166,6 +213,42 @@ def _estimate(potential: Potential, l: int, k: int, r_max: float) -> float:
 def _inner(l: int) -> float:
     """Return the innermost radius for angular momentum l (its wall moves E by ~r^(2l+1))."""
     return (1e-12, 1e-8)[l] if l < 2 else 1e-5
+
+
+def _nested(
+    potential: Potential, n: int, l: int, span: tuple[float, float], points: int, shift: float
+) -> tuple[list[float], list[np.ndarray]]:
+    """Solve one level on the three nested grids; return its energies and R on each."""
+    inner, outer = span
+    k = n - l - 1
+    energies, functions = [], []
+    previous = None
+    for m in ((points + 1) // 2, points, 2 * points - 1):  # nested grids
+        x = np.linspace(math.log(inner), math.log(outer), m)
+        r = np.exp(x)
+        if previous is None:  # the coarse grid: Arnoldi, which picks the level by its nodes
+            try:
+                value, r, u = _state(potential, l, k, x, shift)
+            except NoBoundState as error:
+                raise NoBoundState(
+                    f"no bound state with n={n}, l={l} found in {potential.describe()}: "
+                    f"{error} (the state may be unbound, or too small or too large for the "
+                    "solver's grid)"
+                ) from None
+        else:  # finer grids: start from the coarser one, polish by inverse iteration
+            px, pphi = previous
+            value, phi = _refine(potential, l, x, energies[-1], np.interp(x, px, pphi))
+            u = phi * np.sqrt(r)
+            h = float(x[1] - x[0])
+            u = u / math.sqrt(h * float(np.sum(r * u * u)))
+            lead = u[np.argmax(np.abs(u) > 1e-6 * np.abs(u).max())]
+            u = u if lead > 0 else -u
+            if _nodes(u) != k:  # drifted to a neighbouring level: Arnoldi on this grid too
+                value, r, u = _state(potential, l, k, x, shift)
+        previous = (x, u / np.sqrt(r))
+        energies.append(value)
+        functions.append(u / r)
+    return energies, functions
 
 
 def solve_radial(
@@ -210,18 +293,7 @@ def solve_radial(
     for _ in range(8):
         guess = _estimate(potential, l, k, outer)
         shift = guess - 0.05 * max(abs(guess), 1e-3)  # just below: the nearest level is ours
-        energies, functions = [], []
-        for m in ((points + 1) // 2, points, 2 * points - 1):  # nested grids
-            x = np.linspace(math.log(inner), math.log(outer), m)
-            try:
-                value, r, u = _state(potential, l, k, x, shift)
-            except NoBoundState as error:
-                raise NoBoundState(
-                    f"no bound state with n={n}, l={l} found in {potential.describe()}: {error} "
-                    "(the state may be unbound, or too small or too large for the solver's grid)"
-                ) from None
-            energies.append(value)
-            functions.append(u / r)
+        energies, functions = _nested(potential, n, l, (inner, outer), points, shift)
         r = np.exp(np.linspace(math.log(inner), math.log(outer), points))
         R = (16.0 * functions[2][::2] - functions[1]) / 15.0  # Richardson: O(h^6)
         if (
@@ -251,7 +323,7 @@ def level_members(potential: Potential, state: RadialSolution) -> list[tuple[int
     """Return every (n, l) whose level coincides with ``state``'s within the error estimates.
 
     For each angular momentum l' from 0 upwards the level nearest the state's energy is solved
-    (its node count taken from a coarse estimate of the whole spectrum, on a 801-point grid);
+    (its node count taken from a coarse estimate of the whole spectrum);
     it coincides if the two differ by at most LEVEL_MARGIN times their summed error estimates
     (or 1e-12 relative). The scan stops where
     the lowest level of l' lies above the state's energy (the centrifugal barrier only raises
@@ -274,8 +346,8 @@ def level_members(potential: Potential, state: RadialSolution) -> list[tuple[int
         if l == state.l and k == state.n - state.l - 1:
             members.append((state.n, state.l))
             continue
-        try:  # a lighter grid (error ~1e-8 relative) tells a coinciding level from the rest
-            other = solve_radial(potential, l + k + 1, l, points=801)
+        try:
+            other = solve_radial(potential, l + k + 1, l)
         except NoBoundState:
             continue
         margin = LEVEL_MARGIN * (other.error + state.error) + 1e-12 * abs(state.energy)
