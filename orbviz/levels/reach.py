@@ -46,6 +46,49 @@ def _root(state: State, level: float, direction: np.ndarray, low: float, high: f
     return float(brentq(f, radii[i], radii[i + 1], xtol=1e-13, rtol=1e-15))
 
 
+def _one_shell(state: State, level: float, rough: float) -> float:
+    """Return the reach of a one-shell state at the origin, |psi|^2 = R(r)^2 A(direction).
+
+    The farthest point lies along the direction of largest A: found on a dense set of
+    directions and refined over the two angles (cheap: no root inside), then the outermost
+    root of R^2 A_max = c.
+    """
+    from scipy.optimize import brentq, minimize
+
+    orbital = state.centres[0].orbital
+    shell = orbital.shells[0]
+
+    def angular(polar: np.ndarray, azimuth: np.ndarray) -> np.ndarray:
+        s = np.sin(polar)
+        x, y, z = s * np.cos(azimuth), s * np.sin(azimuth), np.cos(polar)
+        return np.abs(orbital.shell_angular(x, y, z)[shell]) ** 2
+
+    p, a = np.meshgrid(
+        np.linspace(0, math.pi, 181), np.linspace(0, 2 * math.pi, 360), indexing="ij"
+    )
+    values = angular(p.ravel(), a.ravel())
+    best = int(np.argmax(values))
+    found = minimize(
+        lambda t: -float(angular(np.array([t[0]]), np.array([t[1]]))[0]),
+        np.array([p.ravel()[best], a.ravel()[best]]),
+        method="Nelder-Mead",
+        options={"xatol": 1e-10, "fatol": 1e-16, "maxiter": 400},
+    )
+    peak = max(-float(found.fun), float(values[best]))
+
+    def excess(r: np.ndarray) -> np.ndarray:
+        return peak * orbital.radial(*shell, np.atleast_1d(r)) ** 2 - level
+
+    radii = np.linspace(0.9 * rough, 1.1 * rough, 257)
+    above = np.flatnonzero(excess(radii) >= 0)
+    if above.size == 0 or above[-1] == radii.size - 1:
+        return rough
+    i = int(above[-1])
+    return float(
+        brentq(lambda r: float(excess(r)[0]), radii[i], radii[i + 1], xtol=1e-13, rtol=1e-15)
+    )
+
+
 def polished_max_radius(state: State, level: float, rough: float) -> float:
     """Return the surface's largest distance from the nucleus, to about 1e-9 relative.
 
@@ -62,6 +105,9 @@ def polished_max_radius(state: State, level: float, rough: float) -> float:
 
     if not (rough > 0 and math.isfinite(rough)):
         return rough
+    centres = state.centres
+    if len(centres) == 1 and centres[0].z == 0.0 and len(centres[0].orbital.shells) == 1:
+        return _one_shell(state, level, rough)
     low, high = 0.9 * rough, 1.1 * rough
     count = 24
     polar = np.arccos(1 - 2 * (np.arange(count) + 0.5) / count)
