@@ -276,3 +276,16 @@ def test_scene_makes_a_kit_zip_with_its_exploded_view_as_thumbnail(tmp_path, cap
         pixels = np.asarray(thumb.convert("RGB")).reshape(-1, 3).astype(int)
     blue = np.abs(pixels - [0x00, 0x44, 0x88]).sum(axis=1) < 90
     assert blue.mean() > 0.01
+
+
+def test_a_complex_state_makes_a_kit_and_a_set_is_refused(tmp_path, capsys):
+    # the complex 4,2,1 density is rings about z that the rod misses: each gets spokes and pins
+    model, built = _kit("4,2,1")
+    assert {p.color for p in built.parts} == {"support", "surface"}
+    held = {j.parts[1] for j in built.joints if j.kind == "pin"}
+    assert held == {p.code for p in built.parts[1:] if p.code.endswith("a")}
+    for part in built.parts:
+        assert _trimesh(part.printed()).is_watertight
+    status = main(["model", "2sp3", "--kit", "--grid", "48", "-o", str(tmp_path / "k")])
+    err = capsys.readouterr().err
+    assert status == 2 and "a kit is made from one orbital" in err and err.count("\n") == 1

@@ -283,6 +283,11 @@ def build_model(
     """
     opts = checked(options or ModelOptions())
     if isinstance(state, (list, tuple)):
+        if opts.kit:
+            raise ModelError(
+                f"a kit is made from one orbital, and a set of {len(state)} overlaps: make a "
+                "kit of each member on its own, or print the set as one model"
+            )
         bodies, meshes = _set_bodies(state, opts, fraction)
     else:
         one: State = state  # type: ignore[assignment]  # not a sequence: one state

@@ -121,7 +121,9 @@ def support(pieces: list[Any], radius: float, grow: float = 0.0, deep: bool = Fa
         span = float(np.ptp(v, axis=0).max())
         middle = v.mean(axis=0)
         if deep and np.linalg.norm(middle) > 0.2 * span:  # a kit's spoke runs along the lobe
-            nearest = middle / np.linalg.norm(middle) * np.linalg.norm(nearest)
+            along = middle / np.linalg.norm(middle) * np.linalg.norm(nearest)
+            if np.min(np.linalg.norm(v - along, axis=1)) <= 2 * radius:  # if that meets it
+                nearest = along
         depth = max(6 * radius, span / 3) if deep else min(6 * radius, 0.5 * span)
         for target in (nearest, nearest * np.array([-1.0, -1.0, 1.0])):
             if np.min(np.linalg.norm(v - target, axis=1)) > 2 * radius:
