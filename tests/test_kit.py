@@ -223,6 +223,8 @@ def test_magnet_sockets_go_into_both_halves():
         (["--label", "x"], "a label goes on the stand"),
         (["--kit", "--magnets", "40x3"], "--magnets"),
         (["--kit", "--bed", "10x10mm"], "--bed"),
+        (["--stand", "--label", "\u200b"], "something to print"),  # zero-width space
+        (["--stand", "--label", "a\uffff"], "DejaVu Sans Bold"),  # no glyph in the font
     ],
 )
 def test_kit_options_are_refused_with_one_line(args, message, tmp_path, capsys):

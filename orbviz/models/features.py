@@ -16,7 +16,15 @@ import numpy as np
 
 from orbviz.models.solids import arrays, pieces
 
-__all__ = ["LABEL_RELIEF_MM", "MARK_RELIEF_MM", "Mark", "add_marks", "frame", "text_solid"]
+__all__ = [
+    "LABEL_RELIEF_MM",
+    "MARK_RELIEF_MM",
+    "Mark",
+    "add_marks",
+    "check_text",
+    "frame",
+    "text_solid",
+]
 
 MARK_RELIEF_MM = 1.0  # height of a mark above the lobe at its foot (at least 1 mm to feel it)
 LABEL_RELIEF_MM = 0.8  # height of stand lettering (common FDM practice, no source)
@@ -194,6 +202,31 @@ def add_marks(
             marks.append(mark)
             glyphs.append(glyph)
     return out, marks, skipped, glyphs
+
+
+def check_text(text: str) -> str:
+    """Return ``text`` if the label font can print it, else raise ValueError naming the rule.
+
+    Every character must have a glyph in DejaVu Sans Bold, and the text must draw something
+    (not only spaces or invisible characters).
+    """
+    from matplotlib import font_manager
+    from matplotlib.ft2font import FT2Font
+    from matplotlib.textpath import TextPath
+
+    font = font_manager.FontProperties(family="DejaVu Sans", weight="bold")
+    face = FT2Font(font_manager.findfont(font))
+    missing = sorted({c for c in text if face.get_char_index(ord(c)) == 0})
+    if missing:
+        shown = ", ".join(repr(c) for c in missing)
+        raise ValueError(f"expected text the stand's font (DejaVu Sans Bold) has, not {shown}")
+    try:  # matplotlib's TextPath fails on text with no outline at all
+        polygons = TextPath((0.0, 0.0), text, size=10.0, prop=font).to_polygons()
+    except (AttributeError, ValueError):
+        polygons = []
+    if not any(np.asarray(p).shape[0] >= 3 for p in polygons):
+        raise ValueError(f"expected text with something to print, got {text!r}")
+    return text
 
 
 def text_solid(text: str, height: float, depth: float) -> tuple[Any, float]:

@@ -23,7 +23,10 @@ def _label() -> Convert:
             return None
         if isinstance(raw, str) and raw.strip().lower() == "none":
             return ""
-        return read(raw).strip()
+        from orbviz.models.features import check_text
+
+        text = read(raw).strip()
+        return check_text(text) if text else ""  # an empty label is no label
 
     return label
 
