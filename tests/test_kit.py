@@ -223,8 +223,9 @@ def test_magnet_sockets_go_into_both_halves():
         (["--label", "x"], "a label goes on the stand"),
         (["--kit", "--magnets", "40x3"], "--magnets"),
         (["--kit", "--bed", "10x10mm"], "--bed"),
-        (["--stand", "--label", "\u200b"], "something to print"),  # zero-width space
-        (["--stand", "--label", "a\uffff"], "DejaVu Sans Bold"),  # no glyph in the font
+        (["--stand", "--label", "\u200b"], "printable characters"),  # zero-width space
+        (["--stand", "--label", "a\u0085b"], "printable characters"),  # next-line control
+        (["--stand", "--label", "a\u7535"], "DejaVu Sans Bold"),  # a CJK character: no glyph
     ],
 )
 def test_kit_options_are_refused_with_one_line(args, message, tmp_path, capsys):

@@ -210,10 +210,16 @@ def check_text(text: str) -> str:
     Every character must have a glyph in DejaVu Sans Bold, and the text must draw something
     (not only spaces or invisible characters).
     """
+    import unicodedata
+
     from matplotlib import font_manager
     from matplotlib.ft2font import FT2Font
     from matplotlib.textpath import TextPath
 
+    hidden = sorted({c for c in text if unicodedata.category(c).startswith("C")})
+    if hidden:  # control and format characters (line breaks, direction marks): nothing to cut
+        shown = ", ".join(repr(c) for c in hidden)
+        raise ValueError(f"expected printable characters, not {shown}")
     font = font_manager.FontProperties(family="DejaVu Sans", weight="bold")
     face = FT2Font(font_manager.findfont(font))
     missing = sorted({c for c in text if face.get_char_index(ord(c)) == 0})
