@@ -272,7 +272,11 @@ _CONTROL = re.compile(r"[\x00-\x1f\x7f]")
 
 
 def size_pair(
-    low: tuple[float, float], high: tuple[float, float], *, allow_none: bool = False
+    low: tuple[float, float],
+    high: tuple[float, float],
+    *,
+    allow_none: bool = False,
+    example: str = "6x3mm",
 ) -> Convert:
     """Two lengths in mm written ``AxB`` or ``AxBmm`` (``6x3mm``), each within its range."""
     pattern = re.compile(r"^\s*([0-9]*\.?[0-9]+)\s*x\s*([0-9]*\.?[0-9]+)\s*(mm)?\s*$", re.I)
@@ -282,7 +286,7 @@ def size_pair(
             raw = f"{raw[0]}x{raw[1]}"
         found = pattern.match(raw) if isinstance(raw, str) else None
         if found is None:
-            raise ValueError(f"expected two lengths in mm such as 6x3mm, got {shown(raw)}")
+            raise ValueError(f"expected two lengths in mm such as {example}, got {shown(raw)}")
         pair = (float(found.group(1)), float(found.group(2)))
         for value, lo, hi in zip(pair, low, high, strict=True):
             if not lo <= value <= hi:

@@ -218,7 +218,8 @@ def test_magnet_sockets_go_into_both_halves():
 @pytest.mark.parametrize(
     "args, message",
     [
-        (["--magnets", "6x3mm"], "magnets hold the halves of a kit"),
+        (["--magnets", "6x3mm"], "--magnets: it shapes a kit's parts: add --kit"),
+        (["--clearance", "0.3"], "--clearance: it shapes a kit's parts"),
         (["--kit", "--cut", "half"], "leave out --cut"),
         (["--label", "x"], "a label goes on the stand"),
         (["--kit", "--magnets", "40x3"], "--magnets"),
@@ -292,3 +293,38 @@ def test_a_complex_state_makes_a_kit_and_a_set_is_refused(tmp_path, capsys):
     status = main(["model", "2sp3", "--kit", "--grid", "48", "-o", str(tmp_path / "k")])
     err = capsys.readouterr().err
     assert status == 2 and "a kit is made from one orbital" in err and err.count("\n") == 1
+
+
+def test_a_kit_never_replaces_a_folder_of_other_files(tmp_path, capsys, monkeypatch):
+    folder = tmp_path / "mine"
+    (folder / "sub").mkdir(parents=True)
+    (folder / "notes.txt").write_text("keep me")
+    status = main(["model", "2pz", "--kit", "--grid", "48", "-o", str(folder)])
+    err = capsys.readouterr().err
+    assert status == 2 and "holds files this run would not write" in err
+    assert (folder / "notes.txt").read_text() == "keep me" and (folder / "sub").is_dir()
+    monkeypatch.chdir(tmp_path)
+    assert main(["model", "2pz", "--kit", "--grid", "48", "-o", ""]) == 2  # the working folder
+    assert "name a folder of its own" in capsys.readouterr().err
+    kit = tmp_path / "kit"  # an old kit is replaced by a new one
+    assert main(["model", "2pz", "--kit", "--grid", "48", "-o", str(kit)]) == 0
+    assert main(["model", "2pz", "--kit", "--grid", "48", "--size", "50", "-o", str(kit)]) == 0
+
+
+def test_plates_turn_parts_to_fit_a_long_bed(tmp_path, capsys):
+    # the stand (about 60 x 47 mm at 100 mm) fits a 50 x 1000 mm bed only turned a quarter
+    out = tmp_path / "k.zip"
+    args = ["model", "2pz", "--kit", "--grid", "48", "--size", "100", "--bed", "50x1000mm"]
+    assert main([*args, "-o", str(out)]) == 0
+    import io
+    import zipfile
+
+    from stl import mesh as stl_mesh  # numpy-stl, an independent reader
+
+    archive = zipfile.ZipFile(out)
+    plates = [n for n in archive.namelist() if "/plate-" in n]
+    assert plates
+    for name in plates:
+        back = stl_mesh.Mesh.from_file(name, fh=io.BytesIO(archive.read(name)))
+        span = back.vectors.reshape(-1, 3).max(axis=0) - back.vectors.reshape(-1, 3).min(axis=0)
+        assert span[0] <= 50.0 + 1e-6 and span[1] <= 1000.0 + 1e-6, (name, span)

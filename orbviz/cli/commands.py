@@ -270,11 +270,20 @@ def _write_kit(built: Any, options: Any, states: list, target: Path) -> int:
 
 def model(args: argparse.Namespace) -> int:
     """Write a printable model in millimetres (STL, split STLs, or 3MF with colour parts)."""
+    from orbviz.errors import OptionError
     from orbviz.export import write_files
     from orbviz.models.build import build_model, model_targets
     from orbviz.models.options import ModelOptions
 
     physics, options = _physics(args), options_from(args, ModelOptions)
+    plain = ModelOptions()
+    for flag, name in (
+        ("--magnets", "magnets"),
+        ("--clearance", "clearance_mm"),
+        ("--bed", "bed_mm"),
+    ):
+        if getattr(options, name) != getattr(plain, name) and not options.kit:
+            raise OptionError(flag, "it shapes a kit's parts: add --kit")
     targets = model_targets(args.output, options)
     report_path = _report_target(args.report)
     _keep(args, targets + ([report_path] if report_path else []))

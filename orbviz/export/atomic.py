@@ -59,7 +59,24 @@ def _clean_stale(target: Path) -> None:
                     leftover.unlink(missing_ok=True)
 
 
-def check_targets(targets: Sequence[Path], *, folders: bool = False, clobber: bool = True) -> None:
+def _foreign(folder: Path, allowed: Sequence[str]) -> list[str]:
+    """Return the names in an existing folder that a run replacing it would not write."""
+    import fnmatch
+
+    try:
+        names = sorted(entry.name for entry in folder.iterdir())
+    except OSError:
+        return []
+    return [n for n in names if not any(fnmatch.fnmatch(n, pattern) for pattern in allowed)]
+
+
+def check_targets(
+    targets: Sequence[Path],
+    *,
+    folders: bool = False,
+    clobber: bool = True,
+    allowed: Sequence[str] | None = None,
+) -> None:
     """Refuse, before any work, targets that cannot be written.
 
     Parameters
@@ -70,6 +87,10 @@ def check_targets(targets: Sequence[Path], *, folders: bool = False, clobber: bo
         The targets are folders to be replaced as a whole.
     clobber : bool, default: True
         Existing targets may be replaced (as a whole set); with False they are refused.
+    allowed : sequence of str, optional
+        For folders: the names (glob patterns) a run writes in one. An existing folder that
+        holds anything else is refused, so that a run never replaces a folder of other files
+        (nor the working folder or the root).
 
     Raises
     ------
@@ -91,6 +112,19 @@ def check_targets(targets: Sequence[Path], *, folders: bool = False, clobber: bo
             raise OutputError(f"cannot write {str(target)!r}: it is a folder")
         if folders and target.exists() and not target.is_dir():
             raise OutputError(f"cannot write {str(target)!r}: it exists and is not a folder")
+        if folders and target.resolve() in (Path.cwd().resolve(), Path(target.anchor or "/")):
+            raise OutputError(
+                f"cannot write {str(target)!r}: it is the working folder or the root; name a "
+                "folder of its own"
+            )
+        if folders and allowed is not None and target.is_dir():
+            other = _foreign(target, allowed)
+            if other:
+                raise OutputError(
+                    f"cannot write {str(target)!r}: it holds files this run would not write "
+                    f"({', '.join(other[:3])}{', ...' if len(other) > 3 else ''}), and would "
+                    "replace the folder as a whole; name a new folder"
+                )
         if not clobber and (target.exists() or target.is_symlink()):
             raise OutputError(
                 f"cannot write {str(target)!r}: it exists, and no-clobber keeps existing files"

@@ -38,7 +38,7 @@ def check_animation_output(path: str | os.PathLike[str]) -> Path:
             f"cannot write frames to {text!r}: a frames folder is replaced as a whole, so name "
             "it (not '.', '..' or '/')"
         )
-    check_targets([path], folders=not path.suffix)
+    check_targets([path], folders=not path.suffix, allowed=("frame_*.png",))
     if not path.suffix and path.is_dir():
         try:
             other = next((p.name for p in path.iterdir() if not _FRAME.fullmatch(p.name)), None)

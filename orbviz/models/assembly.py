@@ -30,10 +30,12 @@ def steps(kit: Kit) -> list[str]:
     lines = [f"Stand {support.code} on its plinth."]
     halves = [p for p in kit.parts[1:] if p.code.endswith("a")]
     magnets = any(j.kind == "magnet" for j in kit.joints)
+    pinned = {j.parts[1] for j in kit.joints if j.kind == "pin"}
     for part in sorted(halves, key=lambda p: float(_centre(p)[2])):
         other = part.partner or ""
         glue = " with its magnets facing across" if magnets else ""
-        lines.append(f"Press {part.code} onto the pins, then {other} against it{glue}.")
+        onto = "the pins" if part.code in pinned else "the rod"
+        lines.append(f"Press {part.code} onto {onto}, then {other} against it{glue}.")
     return lines
 
 
@@ -72,6 +74,9 @@ def _view(kit: Kit, width: int, height: int) -> np.ndarray:
     """Render the exploded kit off-screen and return the image."""
     import pyvista as pv
 
+    from orbviz.figures.figure import _offscreen
+
+    _offscreen()  # EGL, as every figure: no X server probe, no warning
     plotter: Any = pv.Plotter(off_screen=True, window_size=[width, height])
     plotter.set_background("white")
     points, names = [], []

@@ -37,6 +37,8 @@ from orbviz.surface.options import MeshOptions
 __all__ = ["SUPPORT_RGBA", "PrintModel", "build_model", "model_targets"]
 
 SUPPORT_RGBA: RGBA = (190, 190, 190, 255)  # neutral grey: print it in either material
+# what a kit's folder holds (orbviz.models.kit_files): an old kit may be replaced, nothing else
+KIT_NAMES = ("kit.json", "parts", "plate-*.stl", "assembly.png", "assembly.pdf")
 
 
 def model_targets(path: str | os.PathLike[str], options: ModelOptions) -> list[Path]:
@@ -54,7 +56,7 @@ def model_targets(path: str | os.PathLike[str], options: ModelOptions) -> list[P
 
         if path.suffix and path.suffix.lower() != ".zip":
             raise OutputError(f"cannot write {str(path)!r}: a kit is written to a folder or a .zip")
-        check_targets([path], folders=not path.suffix)
+        check_targets([path], folders=not path.suffix, allowed=KIT_NAMES)
         return [path]
     if options.split and path.suffix.lower() != ".stl":
         raise OutputError(f"cannot write {str(path)!r}: split parts are written as .stl files")

@@ -306,6 +306,41 @@ def _socket(spot: np.ndarray, direction: np.ndarray, radius: float, depth: float
     return cylinder(spot - 0.01 * direction, spot + depth * direction, radius)
 
 
+def _shortfalls(
+    parts: list[KitPart],
+    joints: list[Joint],
+    found: dict[str, list],
+    opts: ModelOptions,
+    least: float,
+) -> list[str]:
+    """Return notes on what the kit could not give: pins, magnets, whole phases."""
+    notes = []
+    firsts = [p.code for p in parts if p.code.endswith("a")]
+    pinned = {j.parts[1] for j in joints if j.kind == "pin"}
+    bare = [c for c in firsts if c not in pinned]
+    if bare:
+        notes.append(
+            f"{len(bare)} lobe(s) ({', '.join(bare)}) have no room for a pin: they sit on the rod "
+            "or spoke by friction alone; a larger size or a thinner rod gives room"
+        )
+    if opts.magnets is not None:
+        held = {j.parts[0] for j in joints if j.kind == "magnet"}
+        without = [c for c in firsts if c not in held]
+        if without:
+            d, t = opts.magnets
+            notes.append(
+                f"{len(without)} lobe(s) ({', '.join(without)}) have no room for {d:g} x {t:g} mm "
+                "magnets: smaller magnets or a larger size"
+            )
+    for name, bits in found.items():
+        if not any(p.volume() >= least for p in bits):
+            notes.append(
+                f"the {name} phase is left out of the kit: nothing of it is larger than "
+                f"{least:.3g} mm^3 outside the rod and bead; a larger size or a thinner rod"
+            )
+    return notes
+
+
 def build_kit(model: PrintModel, opts: ModelOptions, prefix: str, *, codes: bool = True) -> Kit:
     """Split a model built with ``kit`` into printable, keyed parts.
 
@@ -348,6 +383,7 @@ def build_kit(model: PrintModel, opts: ModelOptions, prefix: str, *, codes: bool
             parts += halves
             joints += joined
             pins += pinned
+    notes += _shortfalls(parts, joints, found, opts, least)
     missing = sum(1 for p in parts if p.code_mm == 0.0)
     if missing and codes:
         notes.append(f"{missing} half(s) have no room for their code on the cut face")

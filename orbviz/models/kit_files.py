@@ -46,6 +46,10 @@ def plates(kit: Kit, bed: tuple[float, float]) -> list[tuple[str, list[tuple[str
             solid = part.printed()
             box = np.asarray(solid.bounding_box())
             w, d = box[3] - box[0], box[4] - box[1]
+            if (w > bed[0] or d > bed[1]) and d <= bed[0] and w <= bed[1]:  # turn it a quarter
+                solid = solid.rotate((0.0, 0.0, 90.0))
+                box = np.asarray(solid.bounding_box())
+                w, d = box[3] - box[0], box[4] - box[1]
             if w > bed[0] or d > bed[1]:
                 raise ModelError(
                     f"part {part.code} ({w:.0f} x {d:.0f} mm) does not fit the {bed[0]:g} x "

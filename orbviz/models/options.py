@@ -134,7 +134,7 @@ class ModelOptions:
     bed_mm: tuple[float, float] = option(
         (220.0, 220.0),
         "the printer's bed for a kit's plates, 50x50 to 1000x1000",
-        size_pair((50.0, 50.0), (1000.0, 1000.0)),
+        size_pair((50.0, 50.0), (1000.0, 1000.0), example="220x220mm"),
         key="bed",
         metavar="WxDmm",
     )
@@ -149,10 +149,8 @@ class ModelOptions:
         if self.kit and (self.cut is not None or self.split):
             name = "cut" if self.cut is not None else "split"
             return [(name, f"a kit is made of halves and parts already: leave out {{{name}}}")]
-        if self.magnets is not None and not self.kit:
-            return [("magnets", "magnets hold the halves of a kit: add {kit}")]
         if self.label and not (self.stand or self.kit):
-            return [("label", "a label goes on the stand: add {stand} or {kit}")]
+            return [("label", "a label goes on the stand: add {stand} (a kit has one)")]
         rod, size, least = self.rod, self.size_mm, self.min_feature_mm
         if rod > LIMITS.rod_share_max * size:
             return [
