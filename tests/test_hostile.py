@@ -685,3 +685,16 @@ def test_fuzz_scene_text(tmp_path_factory):
             assert "\n" not in message and message.startswith("fuzz.toml"), message
 
     mutated()
+
+
+def test_batch_into_a_folder_whose_thumbs_is_a_file(capsys, tmp_path):
+    # the contact sheet's thumbs/ must be a folder: a file there is named, never a traceback
+    scene = tmp_path / "s.toml"
+    scene.write_text('[[orbital]]\nspec = "2pz"\noutputs = ["png"]\n')
+    out = tmp_path / "out"
+    out.mkdir()
+    (out / "thumbs").write_text("mine")
+    status = main(["batch", str(scene), "-o", str(out), "--no-progress"])
+    err = capsys.readouterr().err
+    assert status == 2 and "thumbs" in err and "is not a folder" in err
+    assert (out / "thumbs").read_text() == "mine"

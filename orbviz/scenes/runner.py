@@ -249,7 +249,13 @@ def run_scene(
     out = Path(out_dir)
     if out.exists() and not out.is_dir():
         raise OutputError(f"cannot write into {str(out)!r}: it exists and is not a folder")
-    (out / "thumbs").mkdir(parents=True, exist_ok=True)
+    thumbs = out / "thumbs"
+    if thumbs.exists() and not thumbs.is_dir():
+        raise OutputError(f"cannot write into {str(thumbs)!r}: it exists and is not a folder")
+    try:
+        thumbs.mkdir(parents=True, exist_ok=True)
+    except OSError as error:
+        raise OutputError(f"cannot write into {str(out)!r}: {error.strerror or error}") from None
     with folder_lock(out):
         return _run_locked(items, out, executor, jobs, force, progress, title, note)
 
