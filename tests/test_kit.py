@@ -301,7 +301,7 @@ def test_a_kit_never_replaces_a_folder_of_other_files(tmp_path, capsys, monkeypa
     (folder / "notes.txt").write_text("keep me")
     status = main(["model", "2pz", "--kit", "--grid", "48", "-o", str(folder)])
     err = capsys.readouterr().err
-    assert status == 2 and "holds files this run would not write" in err
+    assert status == 2 and "which this run does not write" in err
     assert (folder / "notes.txt").read_text() == "keep me" and (folder / "sub").is_dir()
     monkeypatch.chdir(tmp_path)
     assert main(["model", "2pz", "--kit", "--grid", "48", "-o", ""]) == 2  # the working folder

@@ -112,18 +112,19 @@ def check_targets(
             raise OutputError(f"cannot write {str(target)!r}: it is a folder")
         if folders and target.exists() and not target.is_dir():
             raise OutputError(f"cannot write {str(target)!r}: it exists and is not a folder")
-        if folders and target.resolve() in (Path.cwd().resolve(), Path(target.anchor or "/")):
+        whole = folders and target.resolve() in (Path.cwd().resolve(), Path(target.anchor or "/"))
+        if whole or (folders and target.name == ".."):
             raise OutputError(
-                f"cannot write {str(target)!r}: it is the working folder or the root; name a "
-                "folder of its own"
+                f"cannot write {str(target)!r}: the folder is replaced as a whole, so name a "
+                "folder of its own (not the working folder, '..' or the root)"
             )
         if folders and allowed is not None and target.is_dir():
             other = _foreign(target, allowed)
             if other:
+                shown = ", ".join(repr(n) for n in other[:3]) + (", ..." if len(other) > 3 else "")
                 raise OutputError(
-                    f"cannot write {str(target)!r}: it holds files this run would not write "
-                    f"({', '.join(other[:3])}{', ...' if len(other) > 3 else ''}), and would "
-                    "replace the folder as a whole; name a new folder"
+                    f"cannot write {str(target)!r}: it holds {shown}, which this run does not "
+                    "write, and the folder is replaced as a whole; name a new folder"
                 )
         if not clobber and (target.exists() or target.is_symlink()):
             raise OutputError(

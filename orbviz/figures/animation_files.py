@@ -7,7 +7,6 @@ written all or nothing; a frames folder is replaced as a whole, never topped up.
 from __future__ import annotations
 
 import os
-import re
 from pathlib import Path
 from typing import Any
 
@@ -20,7 +19,6 @@ from orbviz.figures.animation import Animation
 __all__ = ["ANIMATION_SUFFIXES", "check_animation_output", "encode_movie", "write_animation"]
 
 ANIMATION_SUFFIXES = (".gif", ".mp4", ".glb", "")  # "": a folder of PNG frames
-_FRAME = re.compile(r"frame_\d{3,}\.png")
 
 
 def check_animation_output(path: str | os.PathLike[str]) -> Path:
@@ -33,22 +31,7 @@ def check_animation_output(path: str | os.PathLike[str]) -> Path:
     path = Path(path)
     if path.suffix.lower() not in ANIMATION_SUFFIXES:
         raise OutputError(f"cannot write {text!r}: animations go to .gif, .mp4, .glb or a folder")
-    if not path.suffix and path.name in ("", ".."):  # "", ".", "/", "a/.."
-        raise OutputError(
-            f"cannot write frames to {text!r}: a frames folder is replaced as a whole, so name "
-            "it (not '.', '..' or '/')"
-        )
     check_targets([path], folders=not path.suffix, allowed=("frame_*.png",))
-    if not path.suffix and path.is_dir():
-        try:
-            other = next((p.name for p in path.iterdir() if not _FRAME.fullmatch(p.name)), None)
-        except OSError as error:
-            raise OutputError(f"cannot write frames to {text!r}: {error.strerror}") from None
-        if other is not None:
-            raise OutputError(
-                f"cannot write frames to {text!r}: the folder holds {other!r}, which is not a "
-                "frame, and a frames folder is replaced as a whole; name a new folder"
-            )
     return path
 
 

@@ -43,7 +43,7 @@ __all__ = ["Figure", "Panel", "figure", "mesh_options", "sheet"]
 AXIS_REACH = 1.15  # axes through the nucleus run this far beyond the largest surface
 
 
-def _offscreen() -> None:
+def offscreen() -> None:
     """Use EGL off-screen rendering (no X server probe, no warning), before VTK makes a window."""
     os.environ.setdefault("VTK_DEFAULT_OPENGL_WINDOW", "vtkEGLRenderWindow")
 
@@ -366,7 +366,7 @@ def _compose(
             f"{LIMITS.image_megapixels:g}",
         )
     panel_pixels = list(page.panel)
-    _offscreen()
+    offscreen()
     import pyvista
 
     plotter = pyvista.Plotter(off_screen=True, window_size=panel_pixels, lighting="none")

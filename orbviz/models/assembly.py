@@ -74,9 +74,9 @@ def _view(kit: Kit, width: int, height: int) -> np.ndarray:
     """Render the exploded kit off-screen and return the image."""
     import pyvista as pv
 
-    from orbviz.figures.figure import _offscreen
+    from orbviz.figures.figure import offscreen
 
-    _offscreen()  # EGL, as every figure: no X server probe, no warning
+    offscreen()  # EGL, as every figure: no X server probe, no warning
     plotter: Any = pv.Plotter(off_screen=True, window_size=[width, height])
     plotter.set_background("white")
     points, names = [], []

@@ -256,6 +256,22 @@ def _set_bodies(
     return bodies, meshes
 
 
+def _mark(model: PrintModel, opts: ModelOptions) -> None:
+    """Add the phase marks to a model's parts and solid (in place), noting lobes left bare."""
+    assert opts.marks is not None
+    model.parts, model.marks, skipped, glyphs = add_marks(
+        model.parts, opts.marks, opts.min_feature_mm
+    )
+    if glyphs:
+        change = union(glyphs)
+        model.solid = model.solid - change if opts.marks == "engraved" else model.solid + change
+    if skipped:
+        model.notes.append(
+            f"{skipped} lobe(s) carry no mark: hidden inside another or too small for "
+            f"{opts.min_feature_mm:g} mm strokes"
+        )
+
+
 def build_model(
     state: State | Sequence[State],
     /,
@@ -324,18 +340,7 @@ def build_model(
         sleeve=None if grown is None else grown[1].scale((factor,) * 3),
     )
     if opts.marks is not None:
-        result.parts, result.marks, skipped, glyphs = add_marks(
-            result.parts, opts.marks, opts.min_feature_mm
-        )
-        change = union(glyphs) if glyphs else None
-        if change is not None:
-            engraved = opts.marks == "engraved"
-            result.solid = result.solid - change if engraved else result.solid + change
-        if skipped:
-            result.notes.append(
-                f"{skipped} lobe(s) carry no mark: hidden inside another or too small for "
-                f"{opts.min_feature_mm:g} mm strokes"
-            )
+        _mark(result, opts)
     result.checks = printability(result, meshes, opts)
     errors = [c.message for c in result.checks if c.level == "error"]
     if errors:

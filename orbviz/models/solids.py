@@ -96,10 +96,13 @@ def support(pieces: list[Any], radius: float, grow: float = 0.0, deep: bool = Fa
     near_axis, on_rod = [], []
     for piece in pieces:
         v, _ = arrays(piece)
-        close = v[(v[:, 0] ** 2 + v[:, 1] ** 2) < (1.5 * radius) ** 2]
-        on_rod.append(bool(close.size))
-        if close.size:
-            near_axis.append(close[:, 2])
+        close = v[(v[:, 0] ** 2 + v[:, 1] ** 2) < (1.5 * radius) ** 2][:, 2]
+        # where the axis itself pierces the piece (a coarse mesh may have no vertex near it)
+        hits = [h.position[2] for h in piece.ray_cast((0.0, 0.0, -1e5), (0.0, 0.0, 1e5))]
+        z = np.concatenate([close, np.asarray(hits, dtype=np.float64)])
+        on_rod.append(bool(z.size))
+        if z.size:
+            near_axis.append(z)
     parts, plain = [manifold3d.Manifold.sphere(2.5 * radius + grow, circular_segments=48)], []
     plain.append(manifold3d.Manifold.sphere(2.5 * radius, circular_segments=48))
     if near_axis:
@@ -113,9 +116,10 @@ def support(pieces: list[Any], radius: float, grow: float = 0.0, deep: bool = Fa
     spokes = []
     least = 0.01 * max((p.volume() for p in pieces), default=0.0)
     for piece, rod in zip(pieces, on_rod, strict=True):
-        touched = not (piece ^ held).is_empty()
-        if rod or (touched and (not deep or piece.volume() < least)):
-            continue  # held already (a kit's lobes get spokes for pins; specks do not)
+        if deep and piece.volume() < least:
+            continue  # a kit leaves specks out: no spoke for them (it would cross real lobes)
+        if rod or (not deep and not (piece ^ held).is_empty()):
+            continue  # held already (a kit's lobes get spokes for their pins)
         v, _ = arrays(piece)
         nearest = v[np.argmin(np.linalg.norm(v, axis=1))]
         span = float(np.ptp(v, axis=0).max())
