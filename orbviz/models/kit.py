@@ -22,6 +22,7 @@ from orbviz.errors import ModelError
 from orbviz.models.codes import engrave_codes
 from orbviz.models.features import frame
 from orbviz.models.options import ModelOptions
+from orbviz.models.printability import overhang_share
 from orbviz.models.solids import arrays, pieces, union
 
 if TYPE_CHECKING:
@@ -384,6 +385,11 @@ def build_kit(model: PrintModel, opts: ModelOptions, prefix: str, *, codes: bool
             joints += joined
             pins += pinned
     notes += _shortfalls(parts, joints, found, opts, least)
+    steep = [(p.code, overhang_share(p.printed())) for p in parts]
+    steep = [(c, share) for c, share in steep if share > 0.05]
+    if steep:
+        listed = ", ".join(f"{c} {100 * share:.0f}%" for c, share in steep)
+        notes.append(f"parts with surface facing down more steeply than 45 degrees: {listed}")
     missing = sum(1 for p in parts if p.code_mm == 0.0)
     if missing and codes:
         notes.append(f"{missing} half(s) have no room for their code on the cut face")

@@ -19,7 +19,7 @@ from orbviz.surface.mesh import OrbitalMesh
 if TYPE_CHECKING:
     from orbviz.models.build import PrintModel
 
-__all__ = ["Check", "printability"]
+__all__ = ["Check", "overhang_share", "printability"]
 
 
 @dataclass(frozen=True)
@@ -59,13 +59,18 @@ def _thin_share(mesh: OrbitalMesh, mm_per_bohr: float, min_feature: float) -> di
     return out
 
 
-def _overhang_share(solid: Any) -> float:
-    """Share of surface area facing down more steeply than 45 degrees."""
+def overhang_share(solid: Any) -> float:
+    """Share of surface area facing down more steeply than 45 degrees, off the bed.
+
+    Faces lying on the solid's lowest level (its face on the bed) are not overhangs.
+    """
     v, f = arrays(solid)
     cross = np.cross(v[f[:, 1]] - v[f[:, 0]], v[f[:, 2]] - v[f[:, 0]])
     area = np.linalg.norm(cross, axis=1)
     nz = cross[:, 2] / np.maximum(area, 1e-30)
-    return float(area[nz < -math.cos(math.radians(45))].sum() / area.sum())
+    on_bed = np.all(v[f][:, :, 2] < v[:, 2].min() + 1e-3, axis=1)
+    down = (nz < -math.cos(math.radians(45))) & ~on_bed
+    return float(area[down].sum() / area.sum())
 
 
 def _body_checks(model: PrintModel) -> list[Check]:
@@ -121,7 +126,7 @@ def printability(
                 "on the cut face",
             )
         )
-    overhang = 0.0 if options.kit else _overhang_share(model.solid)  # a kit's halves lie flat
+    overhang = 0.0 if options.kit else overhang_share(model.solid)  # a kit's halves lie flat
     if overhang > 0.05:
         checks.append(
             Check(
