@@ -216,11 +216,11 @@ def _assemble(
     held, grown = support(pieces, 0.5 * rod_mm, deep=options.kit), None
     if options.stand or options.kit:
         lowest = float(_bbox(union([*solids.values(), held]))[0][2])
-        base, _ = stand(lowest, rod_mm, options.size_mm, label)
+        base = stand(lowest, rod_mm, options.size_mm, label)
         if options.kit:  # the support widened by the clearance, and by 0.4 mm more
             grown = tuple(
                 support(pieces, 0.5 * rod_mm, g, deep=True)
-                + stand(lowest, rod_mm, options.size_mm, "", g)[0]
+                + stand(lowest, rod_mm, options.size_mm, "", g)
                 for g in (options.clearance_mm, options.clearance_mm + 0.4)
             )
         held = held + base

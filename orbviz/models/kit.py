@@ -190,12 +190,10 @@ def _magnets(piece: Any, normal: np.ndarray, opts: ModelOptions, avoid: list) ->
     section = piece.transform(np.column_stack([rotation.T, np.zeros(3)]).tolist()).slice(0.0)
     inner = section.offset(-(0.5 * diameter + gap + wall))
     spots: list[np.ndarray] = []
-    candidates = [np.asarray(p) for poly in inner.to_polygons() for p in poly]
-    rng = np.random.default_rng(0)
-    candidates += [np.mean(poly, axis=0) for poly in inner.to_polygons()]
-    for point in sorted(candidates, key=lambda p: -float(np.linalg.norm(p))) + list(
-        rng.permutation(candidates) if candidates else []
-    ):
+    polygons = inner.to_polygons()
+    candidates = [np.asarray(p) for poly in polygons for p in poly]
+    candidates += [np.mean(poly, axis=0) for poly in polygons]
+    for point in sorted(candidates, key=lambda p: -float(np.linalg.norm(p))):  # outermost first
         spot = rotation @ np.array([point[0], point[1], 0.0])
         if any(np.linalg.norm(spot - other) < diameter + wall for other in spots + avoid):
             continue
@@ -229,10 +227,10 @@ def _halves(
     opts: ModelOptions,
     prefix: str,
     codes: bool,
-) -> tuple[list[KitPart], list[Joint], list[Any], list[Any]]:
+) -> tuple[list[KitPart], list[Joint], list[Any]]:
     """Cut one lobe into two halves with pin sockets (and magnet sockets).
 
-    Returns the halves, their joints, the pins for the support and the grown pins to cut.
+    Returns the halves, their joints and the pins for the support.
     """
     rod = model.rod_mm
     reach = 2.5 * 0.5 * rod + opts.clearance_mm + 0.05  # the bead's radius, the widest
@@ -297,7 +295,7 @@ def _halves(
         KitPart(code + "a", name, upper, _pose(upper, turn), code + "b", letters),
         KitPart(code + "b", name, lower, _pose(lower, flip @ turn), code + "a", letters),
     ]
-    return parts, joints, pins, cuts
+    return parts, joints, pins
 
 
 def _socket(spot: np.ndarray, direction: np.ndarray, radius: float, depth: float) -> Any:
@@ -378,9 +376,7 @@ def build_kit(model: PrintModel, opts: ModelOptions, prefix: str, *, codes: bool
         )
         for index, piece in enumerate(lobes, start=1):
             others = union([p for bits2 in found.values() for p in bits2 if p is not piece])
-            halves, joined, pinned, cuts = _halves(
-                name, index, piece, others, model, opts, prefix, codes
-            )
+            halves, joined, pinned = _halves(name, index, piece, others, model, opts, prefix, codes)
             parts += halves
             joints += joined
             pins += pinned

@@ -44,8 +44,8 @@ def plinth(lowest: float, rod_mm: float, size: float) -> Plinth:
     return Plinth(radius, top - thickness, top, -FRONT * radius)
 
 
-def _label(text: str, base: Plinth) -> tuple[Any, float]:
-    """Return the raised text on the plinth's flat front and its letter height (mm)."""
+def _label(text: str, base: Plinth) -> Any:
+    """Return the raised text on the plinth's flat front (shrunk to the face if long)."""
     height = 0.7 * (base.top - base.bottom)
     letters, width = text_solid(text, height, LABEL_RELIEF_MM + 0.2)
     room = base.front_width - 0.15 * base.radius
@@ -56,13 +56,11 @@ def _label(text: str, base: Plinth) -> tuple[Any, float]:
     turn = np.array([[1.0, 0.0, 0.0], [0.0, 0.0, -1.0], [0.0, 1.0, 0.0]])
     middle = 0.5 * (base.top + base.bottom)
     matrix = np.column_stack([turn, [0.0, base.front_y + 0.2, middle]])
-    return letters.transform(matrix.tolist()), height
+    return letters.transform(matrix.tolist())
 
 
-def stand(
-    lowest: float, rod_mm: float, size: float, label: str = "", grow: float = 0.0
-) -> tuple[Any, float]:
-    """Return the plinth, its post up to the nucleus and its label; and the letter height.
+def stand(lowest: float, rod_mm: float, size: float, label: str = "", grow: float = 0.0) -> Any:
+    """Return the plinth, its post up to the nucleus and its label, as one solid.
 
     ``grow`` widens the post (for the clearance a kit's lower lobe needs around it).
     """
@@ -80,8 +78,6 @@ def stand(
         np.array([0.0, 0.0, base.top - 0.5 * thickness]), np.zeros(3), 0.5 * rod_mm + grow
     )
     parts = [disc - cut, post]
-    height = 0.0
     if label:
-        letters, height = _label(label, base)
-        parts.append(letters)
-    return union(parts), height
+        parts.append(_label(label, base))
+    return union(parts)

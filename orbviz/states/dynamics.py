@@ -61,20 +61,19 @@ class Beat:
         return self.period * atomic_time_fs()
 
 
-LEVEL_MARGIN = 10.0  # numerical levels within this many times their error estimates are one
-
-
 def _levels(energies: list[tuple[float, float]]) -> list[float]:
     """Merge sorted (energy, error) pairs into levels.
 
-    Two energies within LEVEL_MARGIN times their summed error estimates, or 1e-12 relative
-    (rounding), are one level.
+    Two energies are one level by :func:`orbviz.states.numerical.same_level` (their error
+    estimates; 0 for closed forms, where it is 1e-12 relative).
     """
+    from orbviz.states.numerical import same_level
+
     merged: list[tuple[float, float]] = []
     for e, err in energies:
         if merged:
             last, last_err = merged[-1]
-            if abs(e - last) <= LEVEL_MARGIN * (err + last_err) + 1e-12 * abs(last):
+            if same_level(last, last_err, e, err):
                 continue
         merged.append((e, err))
     return [e for e, _ in merged]

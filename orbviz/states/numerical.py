@@ -111,15 +111,10 @@ def _pencil(potential: Potential, l: int, x: np.ndarray) -> tuple[Any, Any, np.n
     """Sparse L and M of L phi = E M phi on the uniform x = ln r grid (matrix Numerov)."""
     from scipy import sparse
 
-    h = float(x[1] - x[0])
-    r = np.exp(x)
-    ones = np.ones(x.size - 1)
-    second = sparse.diags([ones, -2.0 * np.ones(x.size), ones], [-1, 0, 1], format="csc")
-    mix = sparse.diags([ones, 10.0 * np.ones(x.size), ones], [-1, 0, 1], format="csc") / 12.0
-    q = (l + 0.5) ** 2 + 2.0 * r * r * potential(r)
-    L = (-second / h**2 + mix @ sparse.diags(q)) * 0.5
-    M = mix @ sparse.diags(r * r)
-    return L.tocsc(), M.tocsc(), r, h
+    sub_l, main_l, sup_l, sub_m, main_m, sup_m = _bands(potential, l, x)
+    L = sparse.diags([sub_l, main_l, sup_l], [-1, 0, 1], format="csc")
+    M = sparse.diags([sub_m, main_m, sup_m], [-1, 0, 1], format="csc")
+    return L, M, np.exp(x), float(x[1] - x[0])
 
 
 def _nodes(values: np.ndarray) -> int:
@@ -316,6 +311,17 @@ def solve_radial(
 
 
 LEVEL_MARGIN = 10.0  # levels within this many times their summed error estimates are one
+
+
+def same_level(a: float, a_error: float, b: float, b_error: float) -> bool:
+    """Tell whether two energies are one level.
+
+    They are if they differ by at most LEVEL_MARGIN times their summed error estimates, or by
+    1e-12 relative (rounding).
+    """
+    return abs(a - b) <= LEVEL_MARGIN * (a_error + b_error) + 1e-12 * abs(a)
+
+
 L_WINDOW = 40  # angular momenta scanned for a level's other members: 0 to l + 40
 
 
@@ -350,7 +356,6 @@ def level_members(potential: Potential, state: RadialSolution) -> list[tuple[int
             other = solve_radial(potential, l + k + 1, l)
         except NoBoundState:
             continue
-        margin = LEVEL_MARGIN * (other.error + state.error) + 1e-12 * abs(state.energy)
-        if abs(other.energy - state.energy) <= margin:
+        if same_level(state.energy, state.error, other.energy, other.error):
             members.append((other.n, other.l))
     return sorted(set(members))
