@@ -24,7 +24,7 @@ import numpy as np
 
 from orbviz._defaults import DEFAULTS, LIMITS
 from orbviz.errors import ParameterError
-from orbviz.levels.rays import RayQuadrature
+from orbviz.levels.rays import RayLevels, RayQuadrature
 from orbviz.levels.shell import ShellQuadrature
 from orbviz.states.state import State
 
@@ -131,25 +131,40 @@ def enclosing_isovalue(
     Returns
     -------
     Isovalue
-        The level, and the probability it encloses by a better estimate than the one solved on
-        (so ``enclosed_fraction - fraction`` estimates the error).
+        The level, and the probability it encloses by an estimate independent of the one solved
+        on (so ``enclosed_fraction - fraction`` estimates the error).
 
     Notes
     -----
     A one-shell state is solved on the base quadrature and checked on one twice as fine
-    (typical agreement 1e-7). Anything else is solved on rays at twice the base resolution; its
-    ray quadrature converges at second order, so the check is the Richardson extrapolation
-    (4 P_fine - P_base) / 3 (typical error of the level 5e-5 in probability, of the check under
-    1e-5, against brute-force sums).
+    (typical agreement 1e-7). Anything else is solved on rays: windowed quadratures at refine 1,
+    1.5 and 2 extrapolated to zero spacing, and checked by the Richardson extrapolation from
+    refine 1.5 and 2 alone (both within 1e-5 in probability of brute-force sums in the tests;
+    see :class:`orbviz.levels.rays.RayLevels`).
     """
     fraction = check_fraction(fraction)
-    solve = _quadrature(state, 1) if len(state.shells) == 1 else RayQuadrature(state, 2)
-    level = math.exp(solve.table.level_above(fraction))
-    reach = thin = None
-    if isinstance(solve, ShellQuadrature):
+    if len(state.shells) == 1:
+        solve = _quadrature(state, 1)
+        assert isinstance(solve, ShellQuadrature)
+        level = math.exp(solve.table.level_above(fraction))
         reach, thin = solve.axis_reach(level), solve.thinnest_shell(level)
-    iso = Isovalue(level, fraction, math.nan, solve.max_radius(level), solve.method, reach, thin)
-    return _checked(state, iso, solve) if check else iso
+        reach_max = solve.max_radius(level)
+        iso = Isovalue(level, fraction, math.nan, reach_max, solve.method, reach, thin)
+        return _checked(state, iso, None) if check else iso
+    rays = RayLevels(state, fraction=fraction)
+    log_level = rays.solve(fraction)
+    if log_level is None:  # the scout's level was off by more than the window: centre on P_2
+        guess = rays.quadrature(2.0).table.level_above(fraction)
+        rays = RayLevels(state, log_level=guess)
+        log_level = rays.solve(fraction)
+        if log_level is None:
+            raise ParameterError(
+                f"fraction: no level of this state encloses {fraction:g} to the quadrature's "
+                "accuracy; try a fraction further from 0 and 1"
+            )
+    level = math.exp(log_level)
+    iso = Isovalue(level, fraction, math.nan, rays.quadrature(2.0).max_radius(level), "rays")
+    return _checked(state, iso, rays) if check else iso
 
 
 def check_isovalue(state: State, iso: Isovalue, /) -> Isovalue:
@@ -169,23 +184,20 @@ def check_isovalue(state: State, iso: Isovalue, /) -> Isovalue:
     """
     if not math.isnan(iso.enclosed_fraction):
         return iso
-    return _checked(state, iso, None if len(state.shells) == 1 else RayQuadrature(state, 2))
+    rays = None if len(state.shells) == 1 else RayLevels(state, log_level=math.log(iso.level))
+    return _checked(state, iso, rays)
 
 
-def _checked(
-    state: State, iso: Isovalue, solve: ShellQuadrature | RayQuadrature | None
-) -> Isovalue:
+def _checked(state: State, iso: Isovalue, rays: RayLevels | None) -> Isovalue:
     """Check a level as :func:`enclosing_isovalue` does: a finer shell table, or Richardson."""
-    at = np.array([math.log(iso.level)])
-    check: ShellQuadrature | RayQuadrature
-    if isinstance(solve, RayQuadrature):
-        base = RayQuadrature(state, 1)
-        achieved = float((4.0 * solve.table.above(at)[0] - base.table.above(at)[0]) / 3.0)
-        check = solve
-    else:
-        check = ShellQuadrature(state.centres[0].orbital, 2)
-        achieved = float(check.table.above(at)[0])
     from orbviz.levels.reach import polished_max_radius
 
-    reach = polished_max_radius(state, iso.level, check.max_radius(iso.level))
+    if rays is None:
+        shell = ShellQuadrature(state.centres[0].orbital, 2)
+        achieved = float(shell.table.above(np.array([math.log(iso.level)]))[0])
+        rough = shell.max_radius(iso.level)
+    else:
+        achieved = rays.achieved(math.log(iso.level))
+        rough = rays.quadrature(2.0).max_radius(iso.level)
+    reach = polished_max_radius(state, iso.level, rough)
     return dataclasses.replace(iso, enclosed_fraction=achieved, max_radius=reach)
