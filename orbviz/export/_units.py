@@ -10,6 +10,7 @@ from __future__ import annotations
 from typing import Any
 
 from orbviz._defaults import LENGTH_UNITS
+from orbviz.codata import BOHR_RADIUS_M
 from orbviz.errors import ParameterError
 
 __all__ = ["DISPLAY_SUFFIXES", "UNITS", "display_scale", "unit_scale"]
@@ -39,9 +40,7 @@ def unit_scale(units: str, source: str = "bohr") -> float:
         return 1.0
     if units == "bohr":
         return 1.0
-    from scipy.constants import physical_constants
-
-    return float(physical_constants["Bohr radius"][0] / _METRES[units])
+    return BOHR_RADIUS_M / _METRES[units]
 
 
 def display_scale(vertices: list[Any], metres: float) -> float:

@@ -3,12 +3,14 @@
 The quadratures know it only to their radial spacing (about 1e-5 relative). Here it is polished:
 the outermost crossing of the level along each of a thousand directions is placed on a radial
 scan and solved on the local cubic, and the best directions are then climbed on shrinking
-patches of directions (the root radius is smooth at its maximum), all vectorised.
+patches of directions (the root radius is smooth at its maximum), all vectorised. A one-shell
+state climbs its angular factor instead, and solves one root along the best direction.
 """
 
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 
 import numpy as np
 
@@ -20,11 +22,6 @@ __all__ = ["polished_max_radius"]
 def _density(state: State, points: np.ndarray) -> np.ndarray:
     psi = state.psi(points[..., 0], points[..., 1], points[..., 2], dtype=np.float64)
     return psi * psi if state.is_real else np.abs(psi) ** 2
-
-
-def _direction(polar: float, azimuth: float) -> np.ndarray:
-    s = math.sin(polar)
-    return np.array([s * math.cos(azimuth), s * math.sin(azimuth), math.cos(polar)])
 
 
 def _outer_roots(
@@ -80,69 +77,66 @@ def _tangent(direction: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     return first, np.cross(direction, first)
 
 
-def _climb(state: State, level: float, start: np.ndarray, low: float, high: float) -> float:
-    """Largest outer root about ``start``: 9 x 9 directions on a tangent patch, shrunk by 4."""
+def _climb(score: Callable[[np.ndarray], np.ndarray], start: np.ndarray) -> np.ndarray:
+    """Return the direction of largest ``score`` near ``start``.
+
+    The score is taken on 9 x 9 directions of a patch tangent to the best direction so far;
+    the patch shrinks fourfold when the best lies inside it and moves on when it lies on the
+    edge. A smooth maximum is found to ~1e-8 rad, which costs ~1e-16 of a smooth score.
+    """
     best = start
-    reach = float(_outer_roots(state, level, start[None, :], low, high)[0])
+    value = float(score(start[None, :])[0])
     offsets = np.linspace(-4.0, 4.0, 9)
     u, v = (a.ravel() for a in np.meshgrid(offsets, offsets, indexing="ij"))
     spacing, steps = 0.02, 0
-    while spacing > 1e-8 and steps < 200:  # off by d in direction loses ~d^2 of the radius
+    while spacing > 1e-8 and steps < 200:
         first, second = _tangent(best)
         dirs = best + spacing * (u[:, None] * first + v[:, None] * second)
         dirs /= np.linalg.norm(dirs, axis=1, keepdims=True)
-        roots = _outer_roots(state, level, dirs, max(low, 0.999 * reach), high)
-        k, steps = int(np.argmax(roots)), steps + 1
-        if roots[k] > reach:
-            best, reach = dirs[k], float(roots[k])
-        if max(abs(u[k]), abs(v[k])) < 4.0 or roots[k] <= reach * (1 - 1e-15):
+        values = score(dirs)
+        k, steps = int(np.argmax(values)), steps + 1
+        if values[k] > value:
+            best, value = dirs[k], float(values[k])
+        else:
+            spacing /= 4.0  # nothing better on the patch: zoom in
+            continue
+        if max(abs(u[k]), abs(v[k])) < 4.0:
             spacing /= 4.0  # the best lies inside the patch: zoom in; else move on
-    # the best direction's root once more on a narrow bracket (cubic error ~1e-20)
-    polished = _outer_roots(state, level, best[None, :], 0.9999 * reach, 1.0001 * reach)[0]
-    return float(polished) if polished > 0 else reach
+    return best
+
+
+def _sphere(count: int = 24) -> np.ndarray:
+    """Directions on a polar x azimuth grid, count x 2 count (equal steps in cos(polar))."""
+    polar = np.arccos(1 - 2 * (np.arange(count) + 0.5) / count)
+    azimuth = np.linspace(0.0, 2 * math.pi, 2 * count, endpoint=False)
+    p, a = np.meshgrid(polar, azimuth, indexing="ij")
+    return np.stack([np.sin(p) * np.cos(a), np.sin(p) * np.sin(a), np.cos(p)], -1).reshape(-1, 3)
+
+
+def _polish(state: State, level: float, direction: np.ndarray, low: float, high: float) -> float:
+    """Outer root along ``direction``: a scan of [low, high], then a narrow bracket about it."""
+    rough = float(_outer_roots(state, level, direction[None, :], low, high, count=257)[0])
+    if not 0.0 < rough < high:
+        return rough
+    return float(_outer_roots(state, level, direction[None, :], 0.9999 * rough, 1.0001 * rough)[0])
 
 
 def _one_shell(state: State, level: float, rough: float) -> float:
     """Return the reach of a one-shell state at the origin, |psi|^2 = R(r)^2 A(direction).
 
-    The farthest point lies along the direction of largest A: found on a dense set of
-    directions and refined over the two angles (cheap: no root inside), then the outermost
-    root of R^2 A_max = c.
+    The farthest point lies along the direction of largest A (found on a dense set of
+    directions and climbed, no root inside), then the outermost root of R^2 A_max = c.
     """
-    from scipy.optimize import brentq, minimize
-
     orbital = state.centres[0].orbital
     shell = orbital.shells[0]
 
-    def angular(polar: np.ndarray, azimuth: np.ndarray) -> np.ndarray:
-        s = np.sin(polar)
-        x, y, z = s * np.cos(azimuth), s * np.sin(azimuth), np.cos(polar)
-        return np.abs(orbital.shell_angular(x, y, z)[shell]) ** 2
+    def angular(dirs: np.ndarray) -> np.ndarray:
+        return np.abs(orbital.shell_angular(*dirs.T)[shell]) ** 2
 
-    p, a = np.meshgrid(
-        np.linspace(0, math.pi, 181), np.linspace(0, 2 * math.pi, 360), indexing="ij"
-    )
-    values = angular(p.ravel(), a.ravel())
-    best = int(np.argmax(values))
-    found = minimize(
-        lambda t: -float(angular(np.array([t[0]]), np.array([t[1]]))[0]),
-        np.array([p.ravel()[best], a.ravel()[best]]),
-        method="Nelder-Mead",
-        options={"xatol": 1e-10, "fatol": 1e-16, "maxiter": 400},
-    )
-    peak = max(-float(found.fun), float(values[best]))
-
-    def excess(r: np.ndarray) -> np.ndarray:
-        return peak * orbital.radial(*shell, np.atleast_1d(r)) ** 2 - level
-
-    radii = np.linspace(0.9 * rough, 1.1 * rough, 257)
-    above = np.flatnonzero(excess(radii) >= 0)
-    if above.size == 0 or above[-1] == radii.size - 1:
-        return rough
-    i = int(above[-1])
-    return float(
-        brentq(lambda r: float(excess(r)[0]), radii[i], radii[i + 1], xtol=1e-13, rtol=1e-15)
-    )
+    dirs = _sphere(96)
+    best = _climb(angular, dirs[int(np.argmax(angular(dirs)))])
+    found = _polish(state, level, best, 0.9 * rough, 1.1 * rough)
+    return found if 0.0 < found < 1.1 * rough else rough
 
 
 def polished_max_radius(state: State, level: float, rough: float) -> float:
@@ -163,14 +157,14 @@ def polished_max_radius(state: State, level: float, rough: float) -> float:
     if len(centres) == 1 and centres[0].z == 0.0 and len(centres[0].orbital.shells) == 1:
         return _one_shell(state, level, rough)
     low, high = 0.9 * rough, 1.1 * rough
-    count = 24
-    polar = np.arccos(1 - 2 * (np.arange(count) + 0.5) / count)
-    azimuth = np.linspace(0.0, 2 * math.pi, 2 * count, endpoint=False)
-    p, a = np.meshgrid(polar, azimuth, indexing="ij")
-    dirs = np.stack([np.sin(p) * np.cos(a), np.sin(p) * np.sin(a), np.cos(p)], -1).reshape(-1, 3)
+    dirs = _sphere()
     outer = _outer_roots(state, level, dirs, low, high, count=65)
     if outer.max() == 0.0:
         return rough
+
+    def root(candidates: np.ndarray) -> np.ndarray:
+        return _outer_roots(state, level, candidates, low, high)
+
     # climb from the four best directions: two lobes of nearly equal reach are both tried
-    starts = np.argsort(outer)[::-1][:4]
-    return max(_climb(state, level, dirs[k], low, high) for k in starts)
+    tops = [_climb(root, dirs[k]) for k in np.argsort(outer)[::-1][:4]]
+    return max(_polish(state, level, top, low, high) for top in tops)

@@ -12,6 +12,7 @@ from typing import Any
 
 from orbviz._defaults import BOHR_IN_ANGSTROM, DEFAULTS, DISPLAY_UNITS
 from orbviz._options import choice, option
+from orbviz.codata import HARTREE_EV
 from orbviz.levels.isovalue import enclosing_isovalue
 from orbviz.states.state import State
 
@@ -43,10 +44,8 @@ def _length(bohr: float, units: str, digits: int) -> str:
 
 
 def hartree_in_ev() -> float:
-    """Return the hartree in electronvolts (CODATA, via scipy.constants)."""
-    from scipy.constants import physical_constants
-
-    return float(physical_constants["Hartree energy in eV"][0])
+    """Return the hartree in electronvolts (CODATA 2022, :mod:`orbviz.codata`)."""
+    return HARTREE_EV
 
 
 def summarise(state: State, /, *, fraction: float = DEFAULTS.fraction) -> dict[str, Any]:

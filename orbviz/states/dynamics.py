@@ -12,6 +12,7 @@ from dataclasses import dataclass, replace
 from fractions import Fraction
 from typing import TYPE_CHECKING
 
+from orbviz.codata import ATOMIC_TIME_S
 from orbviz.errors import StationaryError
 
 if TYPE_CHECKING:
@@ -21,10 +22,8 @@ __all__ = ["Beat", "atomic_time_fs", "beat_period", "evolve"]
 
 
 def atomic_time_fs() -> float:
-    """Return the atomic unit of time in femtoseconds (CODATA, via scipy.constants)."""
-    from scipy.constants import physical_constants
-
-    return physical_constants["atomic unit of time"][0] * 1e15
+    """Return the atomic unit of time in femtoseconds (CODATA 2022, :mod:`orbviz.codata`)."""
+    return ATOMIC_TIME_S * 1e15
 
 
 def evolve(orbital: Orbital, t: float, /) -> Orbital:

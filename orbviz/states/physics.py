@@ -10,6 +10,7 @@ from dataclasses import dataclass
 
 from orbviz._defaults import DEFAULTS, LIMITS
 from orbviz._options import boolean, number, option, text
+from orbviz.codata import ELECTRON_MASS_U, PROTON_ELECTRON_MASS_RATIO
 from orbviz.states.potentials import check_potential_text
 from orbviz.states.spec import split_element
 from orbviz.states.state import State
@@ -18,17 +19,13 @@ __all__ = ["Physics", "electron_mass_u", "proton_mass_ratio"]
 
 
 def proton_mass_ratio() -> float:
-    """Reduced mass over electron mass for hydrogen, 1 / (1 + m_e/m_p), from CODATA (scipy)."""
-    from scipy.constants import physical_constants
-
-    return 1.0 / (1.0 + 1.0 / physical_constants["proton-electron mass ratio"][0])
+    """Reduced mass over electron mass for hydrogen, 1 / (1 + m_e/m_p), from CODATA 2022."""
+    return 1.0 / (1.0 + 1.0 / PROTON_ELECTRON_MASS_RATIO)
 
 
 def electron_mass_u() -> float:
-    """Return the electron mass in daltons (CODATA, via scipy.constants)."""
-    from scipy.constants import physical_constants
-
-    return float(physical_constants["electron mass in u"][0])
+    """Return the electron mass in daltons (CODATA 2022, :mod:`orbviz.codata`)."""
+    return ELECTRON_MASS_U
 
 
 @dataclass(frozen=True)
