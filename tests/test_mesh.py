@@ -274,3 +274,24 @@ def test_memory_check_counts_the_window(monkeypatch):
     result = build_mesh(Orbital.from_spec("3dz2"), MeshOptions(grid=512))
     held = result.grid.values.shape
     assert estimate_bytes(512, held) <= 0.8 * allowance and any(result.grid.start)
+
+
+@pytest.mark.parametrize("seed", range(6))
+def test_components_against_scipy(seed):
+    # labels of random sparse graphs (many small components, some isolated nodes) against
+    # scipy.sparse.csgraph.connected_components: the same partition of the nodes
+    from scipy.sparse import coo_matrix
+    from scipy.sparse.csgraph import connected_components
+
+    from orbviz.surface.checks import components
+
+    rng = np.random.default_rng(seed)
+    n = int(rng.integers(10, 5000))
+    edges = int(rng.integers(0, 2 * n))
+    tail, head = rng.integers(0, n, edges), rng.integers(0, n, edges)
+    labels = components(n, tail, head)
+    graph = coo_matrix((np.ones(edges), (tail, head)), shape=(n, n))
+    count, expected = connected_components(graph, directed=False)
+    # the same partition: each of our labels maps to exactly one of scipy's and back
+    pairs = set(zip(labels.tolist(), expected.tolist(), strict=True))
+    assert len(pairs) == count == len(set(labels.tolist()))

@@ -20,11 +20,19 @@ from typing import Any
 
 from orbviz.errors import OutputError
 from orbviz.surface.contour import Body
-from orbviz.surface.convert import trimesh_scene
 
 __all__ = ["companions", "encode", "encode_scene", "z_up_root"]
 
 _Z_UP = [-math.sqrt(0.5), 0.0, 0.0, math.sqrt(0.5)]  # quaternion (x, y, z, w): -90 deg about x
+
+
+def _root(units: str) -> dict[str, Any]:
+    """Return the root node that turns z up, with the length unit noted."""
+    return {
+        "name": "orbviz-z-up",
+        "rotation": list(_Z_UP),
+        "extras": {"length_unit": units, "frame": "nucleus at origin, z quantisation axis"},
+    }
 
 
 def z_up_root(units: str) -> Callable[[dict[str, Any]], None]:
@@ -32,14 +40,7 @@ def z_up_root(units: str) -> Callable[[dict[str, Any]], None]:
 
     def edit(tree: dict[str, Any]) -> None:
         roots = tree["scenes"][tree.get("scene", 0)]["nodes"]
-        tree["nodes"].append(
-            {
-                "name": "orbviz-z-up",
-                "rotation": _Z_UP,
-                "children": list(roots),
-                "extras": {"length_unit": units, "frame": "nucleus at origin, z quantisation axis"},
-            }
-        )
+        tree["nodes"].append({**_root(units), "children": list(roots)})
         tree["scenes"][tree.get("scene", 0)]["nodes"] = [len(tree["nodes"]) - 1]
         tree.setdefault("asset", {})["generator"] = "orbviz"
 
@@ -83,6 +84,7 @@ def encode_scene(
 
 
 def encode(bodies: Sequence[Body], path: Path, *, scale: float, units: str) -> dict[Path, bytes]:
-    """GLB, or glTF plus its buffer file."""
-    scene = trimesh_scene(bodies, scale, linear=True)
-    return encode_scene(scene, path, tree_edit=z_up_root(units))
+    """GLB, or glTF plus its buffer file (static bodies: written without trimesh)."""
+    from orbviz.export.gltf_bodies import encode_bodies
+
+    return encode_bodies(bodies, path, scale=scale, root=_root(units))
