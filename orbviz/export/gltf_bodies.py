@@ -56,7 +56,7 @@ class _Document:
         views.append({"buffer": 0, "byteOffset": self.length, "byteLength": len(raw)})
         views[-1]["target"] = target
         self.length += len(self.parts[-1])
-        accessor = {"bufferView": len(views) - 1, "componentType": component}
+        accessor: dict[str, Any] = {"bufferView": len(views) - 1, "componentType": component}
         accessor.update(count=len(data), type=kind, **extra)
         self.tree["accessors"].append(accessor)
         return len(self.tree["accessors"]) - 1

@@ -73,13 +73,10 @@ def _count(k: int) -> str:
 
 
 def _components(faces: np.ndarray, n: int) -> np.ndarray:
-    from scipy.sparse import coo_matrix
-    from scipy.sparse.csgraph import connected_components
+    """Label each face by its connected piece (through shared vertices)."""
+    from orbviz.surface.checks import components
 
-    tail = faces.ravel()
-    head = np.roll(faces, -1, axis=1).ravel()
-    graph = coo_matrix((np.ones(tail.size, dtype=np.int8), (tail, head)), shape=(n, n))
-    return connected_components(graph, directed=False)[1][faces[:, 0]]
+    return components(n, faces.ravel(), np.roll(faces, -1, axis=1).ravel())[faces[:, 0]]
 
 
 def _solid_angle(a: np.ndarray, b: np.ndarray, c: np.ndarray) -> float:
