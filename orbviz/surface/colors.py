@@ -117,11 +117,18 @@ def linear_bytes(rgba: np.ndarray) -> np.ndarray:
     """Return sRGB-encoded RGBA bytes as linear-light bytes (alpha kept), as glTF stores colour.
 
     glTF 2.0 (section 3.9.2) takes ``baseColorFactor`` and ``COLOR_0`` as linear values; the
-    sRGB transfer function is IEC 61966-2-1's.
+    sRGB transfer function is IEC 61966-2-1's, tabulated once for the 256 byte values.
     """
     rgba = np.asarray(rgba, dtype=np.uint8)
-    c = rgba[..., :3].astype(np.float64) / 255.0
-    linear = np.where(c <= 0.04045, c / 12.92, ((c + 0.055) / 1.055) ** 2.4)
     out = rgba.copy()
-    out[..., :3] = np.round(255.0 * linear).astype(np.uint8)
+    out[..., :3] = _LINEAR_BYTES[rgba[..., :3]]
     return out
+
+
+def _linear_table() -> np.ndarray:
+    c = np.arange(256) / 255.0
+    linear = np.where(c <= 0.04045, c / 12.92, ((c + 0.055) / 1.055) ** 2.4)
+    return np.round(255.0 * linear).astype(np.uint8)
+
+
+_LINEAR_BYTES = _linear_table()
