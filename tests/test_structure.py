@@ -27,6 +27,7 @@ STAGES = [
     "top",
 ]
 BASE = {
+    "orbviz.codata",
     "orbviz._defaults",
     "orbviz.errors",
     "orbviz._options",
