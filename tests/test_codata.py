@@ -19,5 +19,8 @@ from orbviz import codata
     ],
 )
 def test_constant_is_codata(name, key):
-    # CODATA recommended values through scipy.constants.physical_constants (docs/references.md)
-    assert getattr(codata, name) == physical_constants[key][0]
+    # CODATA recommended values through scipy.constants.physical_constants (docs/references.md):
+    # equal to CODATA 2022; a later adjustment moves a value by a few of its standard
+    # uncertainties at most, which this allows (3 sigma), so a scipy update does not fail here
+    value, _, sigma = physical_constants[key]
+    assert abs(getattr(codata, name) - value) <= 3 * sigma

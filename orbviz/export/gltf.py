@@ -85,6 +85,6 @@ def encode_scene(
 
 def encode(bodies: Sequence[Body], path: Path, *, scale: float, units: str) -> dict[Path, bytes]:
     """GLB, or glTF plus its buffer file (static bodies: written without trimesh)."""
-    from orbviz.export.gltf_bodies import encode_bodies
+    from orbviz.export.gltf_bodies import encode_meshes
 
-    return encode_bodies(bodies, path, scale=scale, root=_root(units))
+    return encode_meshes(bodies, path, scale=scale, root=_root(units))

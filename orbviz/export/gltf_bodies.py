@@ -2,12 +2,12 @@
 
 The same document the trimesh route writes (see :mod:`orbviz.export.gltf`): one mesh and node
 per body, a matte PBR material per body (its phase colour, or white under COLOR_0 vertex
-colours), positions, normals and triangle indices in one buffer, and the root node that turns
-z up. The document is a plain JSON tree and the binary container is the GLB layout of the glTF
-2.0 specification (section 4.4: a 12-byte header, then a JSON and a BIN chunk, each 4-byte
-aligned); the Khronos validator checks every file the tests write. Importing trimesh took
-~0.6 s and a glTF data-model library ~0.07 s of ``orbviz mesh``'s start-up, where this takes
-none.
+colours; the rules of :mod:`orbviz.surface.convert`), positions, normals and triangle indices
+in one buffer, and the root node that turns z up. The document is a plain JSON tree and the
+binary container is the GLB layout of the glTF 2.0 specification (section 4.4: a 12-byte
+header, then a JSON and a BIN chunk, each 4-byte aligned); the Khronos validator checks every
+file the tests write. Importing trimesh took ~0.6 s and a glTF data-model library ~0.07 s of
+``orbviz mesh``'s start-up, where this takes none.
 """
 
 from __future__ import annotations
@@ -20,12 +20,13 @@ from typing import Any
 
 import numpy as np
 
+from orbviz.errors import OutputError
 from orbviz.surface.colors import linear_bytes
 from orbviz.surface.contour import Body
+from orbviz.surface.convert import ROUGHNESS
 
-__all__ = ["encode_bodies"]
+__all__ = ["encode_meshes"]
 
-_ROUGHNESS = 0.6
 _FLOAT, _UINT, _UBYTE = 5126, 5125, 5121  # componentType codes (glTF 2.0, section 3.6.2.2)
 _ARRAY, _ELEMENTS = 34962, 34963  # bufferView targets
 _GLB_MAGIC, _JSON_CHUNK, _BIN_CHUNK = 0x46546C67, 0x4E4F534A, 0x004E4942  # "glTF", "JSON", "BIN"
@@ -85,7 +86,7 @@ def _body(doc: _Document, body: Body, scale: float) -> int:
         "pbrMetallicRoughness": {
             "baseColorFactor": [float(v) / 255.0 for v in base],
             "metallicFactor": 0.0,
-            "roughnessFactor": _ROUGHNESS,
+            "roughnessFactor": ROUGHNESS,
         },
         "doubleSided": False,
     }
@@ -112,7 +113,7 @@ def _glb(tree: dict[str, Any], blob: bytes) -> bytes:
     )
 
 
-def encode_bodies(
+def encode_meshes(
     bodies: Sequence[Body], path: Path, *, scale: float, root: dict[str, Any]
 ) -> dict[Path, bytes]:
     """Return the bodies as GLB, or as glTF JSON plus its ``STEM.bin`` buffer.
@@ -128,6 +129,9 @@ def encode_bodies(
     root : dict
         Name, rotation and extras of the root node that holds every body's node.
     """
+    bodies = [body for body in bodies if len(body.faces)]  # as the trimesh route skips them
+    if not bodies:
+        raise OutputError(f"cannot write {str(path)!r}: there is no surface to write")
     doc = _Document()
     children = [_body(doc, body, scale) for body in bodies]
     top = doc.append("nodes", {**root, "children": children})

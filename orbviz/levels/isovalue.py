@@ -72,6 +72,11 @@ class Isovalue:
     thinnest_shell: float | None = None
 
 
+# the ray quadratures of the last level solved without its check, for check_isovalue to reuse
+# (a mesh solves first and checks only when a report asks): (state, level, quadratures)
+_UNCHECKED: list[tuple[State, float, RayLevels]] = []
+
+
 def check_fraction(fraction: object) -> float:
     """Return ``fraction`` as a float, refusing anything outside the supported range."""
     low, high = LIMITS.fraction_min, LIMITS.fraction_max
@@ -137,10 +142,10 @@ def enclosing_isovalue(
     Notes
     -----
     A one-shell state is solved on the base quadrature and checked on one twice as fine
-    (typical agreement 1e-7). Anything else is solved on rays: windowed quadratures at refine 1,
-    1.5 and 2 extrapolated to zero spacing, and checked by the Richardson extrapolation from
-    refine 1.5 and 2 alone (both within 1e-5 in probability of brute-force sums in the tests;
-    see :class:`orbviz.levels.rays.RayLevels`).
+    (typical agreement 1e-7). Anything else is solved on rays: windowed quadratures at refine 1
+    and 2 extrapolated to zero spacing, and checked by the extrapolation from refine 1.5 and 2
+    (both within 4e-6 in probability of brute-force sums for the mixtures in the tests; see
+    :class:`orbviz.levels.rays.RayLevels`).
     """
     fraction = check_fraction(fraction)
     if len(state.shells) == 1:
@@ -153,18 +158,23 @@ def enclosing_isovalue(
         return _checked(state, iso, None) if check else iso
     rays = RayLevels(state, fraction=fraction)
     log_level = rays.solve(fraction)
-    if log_level is None:  # the scout's level was off by more than the window: centre on P_2
-        guess = rays.quadrature(2.0).table.level_above(fraction)
-        rays = RayLevels(state, log_level=guess)
+    for _ in range(6):  # the scout's level was off by more than the window: move it
+        if log_level is not None:
+            break
+        rays = rays.moved(fraction)
         log_level = rays.solve(fraction)
-        if log_level is None:
-            raise ParameterError(
-                f"fraction: no level of this state encloses {fraction:g} to the quadrature's "
-                "accuracy; try a fraction further from 0 and 1"
-            )
+    if log_level is None:
+        raise ParameterError(
+            f"isovalue: the ray quadrature could not place the level enclosing {fraction:g} of "
+            f"{state.label} (its density may be too sharp for rays from the origin; for a "
+            "bond, a smaller Z or R helps)"
+        )
     level = math.exp(log_level)
     iso = Isovalue(level, fraction, math.nan, rays.quadrature(2.0).max_radius(level), "rays")
-    return _checked(state, iso, rays) if check else iso
+    if check:
+        return _checked(state, iso, rays)
+    _UNCHECKED[:] = [(state, level, rays)]  # a later check_isovalue reuses these quadratures
+    return iso
 
 
 def check_isovalue(state: State, iso: Isovalue, /) -> Isovalue:
@@ -184,7 +194,11 @@ def check_isovalue(state: State, iso: Isovalue, /) -> Isovalue:
     """
     if not math.isnan(iso.enclosed_fraction):
         return iso
-    rays = None if len(state.shells) == 1 else RayLevels(state, log_level=math.log(iso.level))
+    rays = None
+    if len(state.shells) > 1:
+        kept = [r for s, level, r in _UNCHECKED if s is state and level == iso.level]
+        rays = kept[0] if kept else RayLevels(state, log_level=math.log(iso.level))
+        _UNCHECKED.clear()
     return _checked(state, iso, rays)
 
 

@@ -12,7 +12,7 @@ import math
 
 import numpy as np
 
-__all__ = ["SPAN", "LogMass", "cell_intervals", "midpoints"]
+__all__ = ["MAX_HALF", "SPAN", "LogMass", "cell_intervals", "midpoints", "spread"]
 
 SPAN = 90.0  # e-folds of density kept below the maximum; lower mass is pooled at the bottom
 
@@ -114,9 +114,27 @@ def cell_intervals(values: np.ndarray, step: float) -> tuple[np.ndarray, np.ndar
     for axis in range(logs.ndim):
         if logs.shape[axis] > 1:
             sq += np.gradient(logs, axis=axis) ** 2
-    half = np.clip(0.5 * np.sqrt(sq), 0.5 * step, 8.0)
-    centre = logs + np.minimum(half, 1.0) ** 2 / 3.0
-    return centre - half, centre + half
+    half = 0.5 * np.sqrt(sq)
+    return spread(logs, half, step)
+
+
+MAX_HALF = 8.0  # widest half-interval of log density one sample is spread over
+
+
+def spread(logs: np.ndarray, half: np.ndarray, step: float) -> tuple[np.ndarray, np.ndarray]:
+    """Return the interval [low, high] of each sample: half-widths kept in [step/2, 8].
+
+    ``half`` is overwritten (clipped). The interval is centred min(h, 1)^2 / 3 above the sample:
+    the centre of mass of a cell whose mass grows as exp(log value), to fourth order.
+    """
+    kind = half.dtype.type
+    np.clip(half, kind(0.5 * step), kind(MAX_HALF), out=half)
+    low = np.minimum(half, kind(1.0))
+    np.square(low, out=low)
+    low *= kind(1.0 / 3.0)
+    low += logs
+    low -= half
+    return low, low + 2 * half
 
 
 def midpoints(count: int, low: float, high: float) -> tuple[np.ndarray, float]:

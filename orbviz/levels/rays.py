@@ -19,20 +19,20 @@ import numpy as np
 
 from orbviz._defaults import DEFAULTS
 from orbviz.levels.fields import field_parity
-from orbviz.levels.logmass import SPAN, LogMass, midpoints
+from orbviz.levels.logmass import MAX_HALF, SPAN, LogMass, midpoints, spread
 from orbviz.levels.shell import unit_vectors
 from orbviz.states.state import State
 from orbviz.states.symmetry import symmetry_frame
 
 __all__ = ["RayLevels", "RayQuadrature"]
 
-_MAX_HALF = 8.0  # widest half-interval of log density one sample is spread over
 # Radial nodes at refine 1 over the whole extent (base + per unit of n, on the square-root map)
 # and the fewest polar lobes the rings resolve: with these, windowed quadratures at refine 1 and
 # 2 extrapolate to within 4e-6 of brute-force sums for the mixtures in the tests, and within
 # 2e-5 for single d and f shells forced onto rays (measured, 2026-12-03).
 _RADIAL = (400, 130)
 _MIN_LOBES = 2
+_WINDOW = 1.0  # half-width of the window of log density about the scout's level
 
 
 def _bound(state: State, r: np.ndarray) -> float:
@@ -167,8 +167,8 @@ class RayQuadrature:
         self.step = step = DEFAULTS.log_step / refine
         if window is None:
             self.table = LogMass(2.0 * math.log(_bound(state, r)) + 1.0, step, span=SPAN + 20.0)
-        else:  # every interval reaching into the window ends below its top + 2 * _MAX_HALF + 1
-            top = window[1] + 2 * _MAX_HALF + 1.0
+        else:  # every interval reaching into the window ends below its top + 2 * MAX_HALF + 1
+            top = window[1] + 2 * MAX_HALF + 1.0
             self.table = LogMass(top, step, span=top - window[0] + 1.0)
         self.ring_max = np.empty((t.size, r.size))
         self.samples = t.size * a.size * r.size
@@ -230,13 +230,7 @@ class RayQuadrature:
             h += np.square(ahead - behind)
         np.sqrt(h, out=h)
         h *= f32(0.25)  # half of the central difference, as a half-width
-        np.clip(h, f32(0.5 * self.step), f32(_MAX_HALF), out=h)
-        low = np.minimum(h, f32(1.0))
-        np.square(low, out=low)
-        low *= f32(1.0 / 3.0)  # the mass-weighted centre lies min(h, 1)^2 / 3 above the sample
-        low += mid
-        low -= h
-        high = low + 2 * h
+        low, high = spread(mid, h, self.step)
         flat = dens.reshape(-1)
         if self.window is None:
             keep = np.flatnonzero(flat > 0)
@@ -271,10 +265,10 @@ class RayLevels:
 
     A scout quadrature at half the base resolution places a window of log density about the
     level and the radius the rays must reach; quadratures at refine 1, 1.5 and 2 are then built
-    on demand. Their error behaves as a h^2 + b h^4 in the spacing h (measured against
-    brute-force sums: at refine 1 the h^4 term is still a quarter of the h^2 one), so the level
-    is solved on the extrapolation from all three (error O(h^6)), and checked by the plain
-    Richardson extrapolation (16 P_2 - 9 P_1.5) / 7 from two of them (error O(h^4)).
+    on demand. Their error falls as the square of the spacing, so the level is solved on the
+    Richardson extrapolation (4 P_2 - P_1) / 3 and checked by (16 P_2 - 9 P_1.5) / 7, a second
+    extrapolation that shares P_2 but not P_1 (both within 4e-6 of brute-force sums for the
+    mixtures in the tests; up to 2e-5 for single d and f shells forced onto rays).
 
     Parameters
     ----------
@@ -287,16 +281,20 @@ class RayLevels:
     """
 
     def __init__(
-        self, state: State, fraction: float | None = None, log_level: float | None = None
+        self,
+        state: State,
+        fraction: float | None = None,
+        log_level: float | None = None,
+        scout: RayQuadrature | None = None,
     ) -> None:
         self.state = state
-        scout = RayQuadrature(state, 0.5)
+        self.scout = scout or RayQuadrature(state, 0.5)
         if log_level is None:
             assert fraction is not None
-            log_level = scout.table.level_above(fraction)
-        self.window = (log_level - 0.5, log_level + 0.5)
+            log_level = self.scout.table.level_above(fraction)
+        self.window = (log_level - _WINDOW, log_level + _WINDOW)
         # beyond this radius every scout ray lies e^6 below the window
-        self.r_max = 1.1 * scout.max_radius(math.exp(self.window[0] - 6.0))
+        self.r_max = 1.1 * self.scout.max_radius(math.exp(self.window[0] - 6.0))
         self._tables: dict[float, RayQuadrature] = {}
 
     def quadrature(self, refine: float) -> RayQuadrature:
@@ -323,6 +321,21 @@ class RayLevels:
             return None
         i = int(inside[-1])  # P falls through the fraction between logs[i] and logs[i + 1]
         return float(np.interp(fraction, [p[i + 1], p[i]], [logs[i + 1], logs[i]]))
+
+    def moved(self, fraction: float) -> RayLevels:
+        """Return the quadratures about a better guess, when :meth:`solve` found no level.
+
+        The finer windowed table, with the mass above the window added back, places the level;
+        it is kept at least a window's width beyond the side the extrapolation points to.
+        """
+        fine = self.quadrature(2.0)
+        ends = self.extrapolated((1.0, 2.0), np.array(self.window))
+        guess = fine.table.level_above(min(max(fraction - fine.lump, 0.0), 1.0))
+        if ends[0] < fraction:  # even the window's bottom encloses too little: go lower
+            guess = min(guess, self.window[0] - _WINDOW)
+        else:  # its top encloses too much: go higher
+            guess = max(guess, self.window[1] + _WINDOW)
+        return RayLevels(self.state, log_level=guess, scout=self.scout)
 
     def achieved(self, log_level: float) -> float:
         """Probability the level encloses, by the checking extrapolation."""

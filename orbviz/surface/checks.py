@@ -80,7 +80,7 @@ def components(count: int, tail: np.ndarray, head: np.ndarray) -> np.ndarray:
         if not apart.any():
             return parent
         low, high = np.minimum(a[apart], b[apart]), np.maximum(a[apart], b[apart])
-        parent[high] = low  # roots only (after the jumps below), each to some smaller root
+        np.minimum.at(parent, high, low)  # roots only (after the jumps below), to the smallest
         while True:
             jumped = parent[parent]
             if np.array_equal(jumped, parent):

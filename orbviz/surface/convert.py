@@ -15,9 +15,9 @@ import numpy as np
 
 from orbviz.surface.contour import Body
 
-__all__ = ["body_trimesh", "combined_trimesh", "pyvista_blocks", "trimesh_scene"]
+__all__ = ["ROUGHNESS", "body_trimesh", "combined_trimesh", "pyvista_blocks", "trimesh_scene"]
 
-_ROUGHNESS = 0.6
+ROUGHNESS = 0.6  # of every body's matte material
 
 
 def _material(name: str, rgba: Sequence[int]) -> Any:
@@ -27,7 +27,7 @@ def _material(name: str, rgba: Sequence[int]) -> Any:
         name=name,
         baseColorFactor=[int(v) for v in rgba],
         metallicFactor=0.0,
-        roughnessFactor=_ROUGHNESS,
+        roughnessFactor=ROUGHNESS,
         doubleSided=False,
     )
 
