@@ -101,3 +101,13 @@ def test_max_radius_of_a_mixture_to_1e_8():
         options={"xatol": 1e-9, "fatol": 1e-14, "maxiter": 2000},
     )
     assert iso.max_radius == pytest.approx(-best.fun, rel=1e-8)
+
+
+def test_mixture_at_a_high_fraction():
+    # f = 0.999 puts the level far in the tail, where the coarse first pass is least sure of
+    # it: the level is still found, and encloses f within 1e-5 by the scipy brute force
+    terms = [(1.0, 2, 1, 0, "real"), (0.5, 3, 2, 1, "real")]  # 2pz + 0.5 3dxz
+    iso = enclosing_isovalue(Orbital.from_spec("2pz + 0.5*3dxz"), fraction=0.999)
+    truth = enclosed(terms, iso.level, 2.0 * iso.max_radius, nr=3000, nt=200, na=400)
+    assert truth == pytest.approx(0.999, abs=1e-5)
+    assert iso.enclosed_fraction == pytest.approx(truth, abs=1e-5)
