@@ -46,12 +46,10 @@ def _levels(options: PageOptions, fraction: float) -> list[float]:
 
 
 def _glb(mesh: OrbitalMesh, scale: float, units: str) -> str:
-    from orbviz.export.gltf import encode_scene, z_up_root
-    from orbviz.surface.convert import trimesh_scene
+    from orbviz.export.gltf import encode
 
     bodies = [dataclasses.replace(b, normals=np.empty((0, 3))) for b in mesh.bodies]
-    scene = trimesh_scene(bodies, scale, linear=True)
-    data = encode_scene(scene, Path("page.glb"), tree_edit=z_up_root(units))[Path("page.glb")]
+    data = encode(bodies, Path("page.glb"), scale=scale, units=units)[Path("page.glb")]
     return base64.b64encode(data).decode("ascii")
 
 
