@@ -171,7 +171,6 @@ class RayQuadrature:
             top = window[1] + 2 * MAX_HALF + 1.0
             self.table = LogMass(top, step, span=top - window[0] + 1.0)
         self.ring_max = np.empty((t.size, r.size))
-        self.samples = t.size * a.size * r.size
         cell = r * r * 2.0 * r_max * u * du * da * weight
         block = max(1, DEFAULTS.ray_block // (a.size * r.size))
         for first in range(0, t.size, block):  # blocks of polar rings, with a one-ring halo
@@ -201,8 +200,8 @@ class RayQuadrature:
     ) -> None:
         """Add the rings first .. first + block - 1 to the table (neighbours for the spreads).
 
-        Each sample's log-density interval follows :func:`orbviz.levels.logmass.cell_intervals`
-        (central differences on all three axes), in float32 passes over the block.
+        Each sample's log-density interval comes from central differences on all three axes
+        and the rule of :func:`orbviz.levels.logmass.spread`, in float32 over the block.
         """
         import numexpr
 
