@@ -87,6 +87,6 @@ def test_figure_is_a_context_manager(tmp_path):
     with orbviz.figure("2pz", grid=32, size=(200, 150)) as fig:
         path = fig.save(Path(tmp_path) / "f.png")
         assert fig.image().shape == (150, 200, 4)
-    assert path.exists() and fig.plotter is None  # closed on leaving the block
+    assert path.exists() and fig.stage is None  # closed on leaving the block
     with pytest.raises(orbviz.ParameterError, match="closed"):
         fig.image()

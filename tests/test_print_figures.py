@@ -427,18 +427,17 @@ def test_dxy_and_dx2_y2_panels_look_different_in_a_sheet():
 @pytest.mark.parametrize("specs", [["3d"], ["4,2,1"]])
 def test_every_text_is_at_least_6_pt_at_print_size(specs):
     # journals ask for text of at least 6 pt at the printed size (common practice, no source)
-    from matplotlib.text import Text
-
     from orbviz.figures.figure import sheet
+    from orbviz.figures.marks import Words
     from orbviz.states.make import set_members
 
     states = [orbviz.state(s) for spec in specs for s in set_members(spec) or [spec]]
     options = FigureOptions(grid=32, width=85.0, dpi=150, title="a title")
     with sheet(states, options, oriented=len(states) > 1) as fig:
         page = fig.page(show_progress=False)
-        texts = [t for t in page.figure.findobj(Text) if t.get_text().strip()]
+        texts = [m for m in page.marks if isinstance(m, Words) and m.text.strip()]
         assert len(texts) >= 3  # the title, labels or wheel, the scale bar
-        assert min(t.get_fontsize() for t in texts) >= 6.0
+        assert min(t.size for t in texts) >= 6.0
 
 
 def test_a_set_in_one_panel_keys_its_members_not_the_phases(tmp_path):
@@ -464,6 +463,7 @@ def test_the_default_view_does_not_look_down_a_hybrid_lobe():
 @pytest.mark.parametrize(("inked", "expected_side"), [("right", "left"), ("left", "right")])
 def test_the_phase_wheel_takes_the_emptier_top_corner(inked, expected_side):
     # a panel drawn only in one top corner: the wheel must not be placed over the drawing
+    from orbviz.figures.marks import Picture
     from orbviz.figures.options import FigureOptions
     from orbviz.figures.page import Page, PanelImage
 
@@ -474,7 +474,6 @@ def test_the_phase_wheel_takes_the_emptier_top_corner(inked, expected_side):
         rgba[:120, :140, :3] = 40
     panel = PanelImage(rgba, half_height=10.0, complex_phase=True)
     page = Page([panel], FigureOptions(size=(400, 300), scale_bar=False), (1, 1))
-    wheel = page.figure.axes[-1]  # the key is drawn last
-    x0, _, width, _ = wheel.get_position().bounds
-    side = "left" if x0 + width / 2 < 0.5 else "right"
+    (wheel,) = [m for m in page.marks if isinstance(m, Picture) and m.smooth]  # the ring
+    side = "left" if wheel.left + wheel.width / 2 < page.pixels[0] / 2 else "right"
     assert side == expected_side

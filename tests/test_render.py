@@ -54,7 +54,7 @@ def _near(img: np.ndarray, rgb, tol=60) -> float:
 
 def test_size_coverage_and_both_phase_colours(tmp_path):
     _, img = _render("3dz2", tmp_path, scale_bar=False, key=False, axes=False)
-    assert img.shape == (SMALL[1], SMALL[0], 4)
+    assert img.shape == (SMALL[1], SMALL[0], 3)  # opaque: written as RGB
     share = _foreground(img).mean()
     assert 0.15 < share < 0.85  # the orbital fills a sensible part of the frame
     assert _near(img, DEFAULT_PAIR[0][:3]) > 0.03 and _near(img, DEFAULT_PAIR[1][:3]) > 0.03

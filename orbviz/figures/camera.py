@@ -4,17 +4,18 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING
 
 import numpy as np
 
 from orbviz.figures.options import SET_VIEW, VIEWS
 from orbviz.figures.page import geometry
+from orbviz.figures.stage import Light
 
 if TYPE_CHECKING:
     from orbviz.figures.figure import Figure, Panel
 
-__all__ = ["camera_axes", "default_view", "frame", "place_lights"]
+__all__ = ["camera_axes", "default_view", "frame", "lights"]
 
 
 def camera_axes(view: tuple[float, float]) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
@@ -34,31 +35,19 @@ def camera_axes(view: tuple[float, float]) -> tuple[np.ndarray, np.ndarray, np.n
     return toward, right, up
 
 
-def place_lights(
-    plotter: Any, preset: str, toward: np.ndarray, right: np.ndarray, up: np.ndarray
-) -> None:
-    """Replace the plotter's lights: one camera light (flat), or key, fill and rim lights."""
-    import pyvista
-
-    plotter.remove_all_lights()
+def lights(preset: str, toward: np.ndarray, right: np.ndarray, up: np.ndarray) -> list[Light]:
+    """Return the lights of a preset: one camera light (flat), or key, fill and rim lights."""
     if preset == "flat":
-        plotter.add_light(
-            pyvista.Light(position=tuple(toward * 100), intensity=1.0, light_type="camera light")
-        )
-        return
+        return [("camera", tuple(toward * 100), 1.0)]
     key, fill, rim = (0.75, 0.35, 0.45) if preset == "soft" else (1.0, 0.25, 0.6)
-    for direction, intensity in [
-        (toward + 0.8 * up - 0.7 * right, key),  # key: above left
-        (toward - 0.2 * up + 0.9 * right, fill),  # fill: right, low
-        (-toward + 0.9 * up + 0.3 * right, rim),  # rim: behind, above
-    ]:
-        light = pyvista.Light(
-            position=tuple(direction * 100),
-            focal_point=(0, 0, 0),
-            intensity=intensity,
-            light_type="scene light",
-        )
-        plotter.add_light(light)
+    return [
+        ("scene", tuple(direction * 100), intensity)
+        for direction, intensity in [
+            (toward + 0.8 * up - 0.7 * right, key),  # key: above left
+            (toward - 0.2 * up + 0.9 * right, fill),  # fill: right, low
+            (-toward + 0.9 * up + 0.3 * right, rim),  # rim: behind, above
+        ]
+    ]
 
 
 def _lobe_axes(panels: Sequence[Panel]) -> list[np.ndarray]:
@@ -111,12 +100,9 @@ def frame(fig: Figure, vertices: np.ndarray) -> float:
         half_height = 1.2 * max(half_h, half_w * aspect)
     else:
         half_height = 1.05 * options.extent * max(1.0, aspect)
-    camera = fig.plotter.camera
-    fig.plotter.enable_parallel_projection()
-    camera.focal_point = (0.0, 0.0, 0.0)
-    camera.position = tuple(toward * 10 * max(reach, 1.0))
-    camera.up = tuple(up)
-    camera.parallel_scale = half_height
-    camera.clipping_range = (1e-3, 40 * max(reach, 1.0))
-    place_lights(fig.plotter, options.lighting, toward, right, up)
+    far = max(reach, 1.0)
+    if fig.stage is None:
+        raise ValueError("the figure is closed")
+    fig.stage.look(toward, up, half_height, distance=10 * far, clip=(1e-3, 40 * far))
+    fig.stage.light(lights(options.lighting, toward, right, up))
     return float(half_height)

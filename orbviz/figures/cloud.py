@@ -14,7 +14,9 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
+from orbviz.figures import actors
 from orbviz.figures.options import FigureOptions
+from orbviz.figures.stage import Stage
 from orbviz.levels.sampling import Points, sample
 from orbviz.states.state import State
 
@@ -39,13 +41,14 @@ def cloud_points(state: State, count: int) -> Points:
 
 
 def volume_grid(state: State, level: float, options: FigureOptions) -> Any:
-    """Return |psi|^2 on a grid as a ``pyvista.ImageData`` with RGBA point colours.
+    """Return |psi|^2 on a grid as a ``vtkImageData`` with RGBA point colours.
 
     The colour is the phase colour; each sample's alpha grows as the square root of the
     density, 0.06 at the figure's isovalue and at most 0.5, so an s state's outer shells show
     beside its dense core.
     """
-    import pyvista
+    from vtkmodules.util.numpy_support import numpy_to_vtk
+    from vtkmodules.vtkCommonDataModel import vtkImageData
 
     from orbviz.surface.colors import point_colors
 
@@ -60,12 +63,13 @@ def volume_grid(state: State, level: float, options: FigureOptions) -> Any:
     rgba[:, 3] = np.round(255 * alpha).astype(np.uint8)
     xyz = np.column_stack([x.ravel(order="F"), y.ravel(order="F"), z.ravel(order="F")])
     rgba[~_cut(xyz, options.cut), 3] = 0  # a cutaway empties its part of the volume
-    grid = pyvista.ImageData(
-        dimensions=(_VOLUME_GRID,) * 3,
-        spacing=(float(axis[1] - axis[0]),) * 3,
-        origin=(float(axis[0]),) * 3,
-    )
-    grid.point_data["RGBA"] = rgba
+    grid = vtkImageData()
+    grid.SetDimensions((_VOLUME_GRID,) * 3)
+    grid.SetSpacing((float(axis[1] - axis[0]),) * 3)
+    grid.SetOrigin((float(axis[0]),) * 3)
+    colours = numpy_to_vtk(np.ascontiguousarray(rgba, dtype=np.uint8), deep=True)
+    colours.SetName("RGBA")
+    grid.GetPointData().SetScalars(colours)
     return grid
 
 
@@ -89,39 +93,19 @@ def _cut(positions: np.ndarray, cut: str | None) -> np.ndarray:
 
 
 def add_cloud(
-    plotter: Any, options: FigureOptions, points: Points, *, prefix: str = ""
+    stage: Stage, options: FigureOptions, points: Points, *, prefix: str = ""
 ) -> list[str]:
     """Add the dots, in the phase colours, as small lit spheres (sized to the window)."""
     from orbviz.surface.colors import point_colors
 
     keep = _cut(points.positions, options.cut)
     colours = point_colors(points.phase[keep], points.real, options.colors)
-    size = max(2.0, plotter.window_size[1] / 260)
-    name = f"{prefix}cloud"
-    plotter.add_points(
-        points.positions[keep],
-        scalars=colours[:, :3],
-        rgb=True,
-        render_points_as_spheres=True,
-        point_size=size,
-        ambient=0.3,
-        diffuse=0.8,
-        name=name,
-        render=False,
-    )
-    return [name]
+    size = max(2.0, stage.size[1] / 260)
+    return [stage.add(f"{prefix}cloud", actors.points(points.positions[keep], colours, size=size))]
 
 
-def add_volume(plotter: Any, volume: Any, *, prefix: str = "") -> list[str]:
+def add_volume(stage: Stage, volume: Any, *, prefix: str = "") -> list[str]:
     """Add the translucent density, its colour and opacity from its RGBA samples."""
-    name = f"{prefix}volume"
-    plotter.add_volume(
-        volume,
-        scalars="RGBA",
-        # full alpha accumulates to opacity 1 - 1/e over half the box side
-        opacity_unit_distance=float(volume.spacing[0]) * volume.dimensions[0] / 2,
-        show_scalar_bar=False,
-        name=name,
-        render=False,
-    )
-    return [name]
+    # full alpha accumulates to opacity 1 - 1/e over half the box side
+    side = volume.GetSpacing()[0] * volume.GetDimensions()[0]
+    return [stage.add(f"{prefix}volume", actors.volume(volume, unit_distance=side / 2))]

@@ -1,4 +1,4 @@
-"""Publication figures rendered off-screen with PyVista (VTK): one orbital, or a sheet of them.
+"""Publication figures rendered off-screen with VTK: one orbital, or a sheet of them.
 
 A figure is a page of panels (:mod:`orbviz.figures.page`), each an orthographic view of one
 state's phase-coloured bodies. Every panel shares one camera, one lighting and one scale: the
@@ -8,7 +8,8 @@ multisampled. Transparent images are made by difference matting (the scene on bl
 white), so edges carry true partial alpha with no halo. Labels, the phase key and the scale bar
 are vector text drawn on the page; the alt text is made from the physics (:mod:`.alt`).
 
-A :class:`Figure` holds an off-screen render window: close it when done (it is a context
+A :class:`Figure` holds an off-screen render window (:class:`~orbviz.figures.stage.Stage`):
+close it when done (it is a context
 manager), or many figures in one process grow without bound.
 """
 
@@ -32,6 +33,7 @@ from orbviz.figures.cloud import add_cloud, add_volume, styled
 from orbviz.figures.options import FigureOptions, page_layout
 from orbviz.figures.overlays import add_axis_lines, add_bodies, add_caps, add_members, add_nodes
 from orbviz.figures.page import PAGE_SUFFIXES, Page, PanelImage, geometry
+from orbviz.figures.stage import Stage
 from orbviz.levels.sampling import Points
 from orbviz.states.state import State
 from orbviz.surface.colors import SET_PALETTE
@@ -41,11 +43,6 @@ from orbviz.surface.options import MeshOptions
 __all__ = ["Figure", "Panel", "figure", "mesh_options", "sheet"]
 
 AXIS_REACH = 1.15  # axes through the nucleus run this far beyond the largest surface
-
-
-def offscreen() -> None:
-    """Use EGL off-screen rendering (no X server probe, no warning), before VTK makes a window."""
-    os.environ.setdefault("VTK_DEFAULT_OPENGL_WINDOW", "vtkEGLRenderWindow")
 
 
 def mesh_options(options: FigureOptions) -> MeshOptions:
@@ -70,7 +67,7 @@ class Panel:
     members : list of OrbitalMesh
         A set drawn in this one panel, each member in its own colour (then ``mesh`` is the
         first member's).
-    cloud, volume : Points or pyvista.ImageData, optional
+    cloud, volume : Points or vtkImageData, optional
         Dots or a translucent density drawn instead of the surface (the ``style`` option).
     overlays : dict
         Actor names by kind (``radial_nodes``, ``angular_nodes``, ``outer``, ``caps``,
@@ -95,12 +92,12 @@ class Panel:
 
 @dataclass
 class Figure:
-    """A composed figure: the off-screen plotter, the panels, and how they are laid out.
+    """A composed figure: the off-screen stage, the panels, and how they are laid out.
 
     Attributes
     ----------
-    plotter : pyvista.Plotter or None
-        The off-screen scene (None once closed).
+    stage : Stage or None
+        The off-screen scene (None once closed); ``stage.renderer`` is its ``vtkRenderer``.
     panels : list of Panel
         What each panel shows.
     options : FigureOptions
@@ -115,7 +112,7 @@ class Figure:
         Camera azimuth and elevation, degrees (the options' view, or the default for the set).
     """
 
-    plotter: Any
+    stage: Stage | None
     panels: list[Panel]
     options: FigureOptions
     layout: tuple[int, int] = (1, 1)
@@ -173,10 +170,9 @@ class Figure:
 
     def close(self) -> None:
         """Release the render window and its memory; the figure cannot render after this."""
-        if self.plotter is not None:
-            self.plotter.close()
-            self.plotter.deep_clean()
-            self.plotter = None
+        if self.stage is not None:
+            self.stage.close()
+            self.stage = None
 
     # --------------------------------------------------------------- panels
     def replace_panel(self, k: int, panel: Panel) -> None:
@@ -186,48 +182,44 @@ class Figure:
         self.panels[k] = panel
 
     def _hide(self) -> None:
-        if self._current >= 0 and self.plotter is not None:
+        if self._current >= 0 and self.stage is not None:
             old = self.panels[self._current]
             for names in old.overlays.values():
                 for name in names:
-                    self.plotter.remove_actor(name, render=False)
+                    self.stage.remove(name)
             old.overlays = {}
         self._current = -1
 
     def _show(self, k: int) -> None:
-        """Put panel k's actors on the plotter, taking the shown panel's away."""
+        """Put panel k's actors on the stage, taking the shown panel's away."""
         if k == self._current:
             return
-        if self.plotter is None:
+        if self.stage is None:
             raise ParameterError("this figure was closed; make a new one")
         self._hide()
         panel, prefix = self.panels[k], f"p{k}-"
-        options, plotter = self.options, self.plotter
+        options, stage = self.options, self.stage
         if panel.cloud is not None:
-            panel.overlays["cloud"] = add_cloud(plotter, options, panel.cloud, prefix=prefix)
+            panel.overlays["cloud"] = add_cloud(stage, options, panel.cloud, prefix=prefix)
         elif panel.volume is not None:
-            panel.overlays["volume"] = add_volume(plotter, panel.volume, prefix=prefix)
+            panel.overlays["volume"] = add_volume(stage, panel.volume, prefix=prefix)
         elif panel.members:
-            panel.overlays["members"] = add_members(plotter, panel.members, prefix=prefix)
+            panel.overlays["members"] = add_members(stage, panel.members, prefix=prefix)
         else:
-            panel.overlays["bodies"] = add_bodies(
-                plotter, options, panel.mesh.bodies, prefix=prefix
-            )
+            panel.overlays["bodies"] = add_bodies(stage, options, panel.mesh.bodies, prefix=prefix)
         if options.cut and options.style == "surface":
-            panel.overlays["caps"] = add_caps(plotter, options, panel.mesh, prefix=prefix)
+            panel.overlays["caps"] = add_caps(stage, options, panel.mesh, prefix=prefix)
         if panel.outer is not None:
             panel.overlays["outer"] = add_bodies(
-                plotter, options, panel.outer.bodies, prefix=f"{prefix}outer-", opacity=0.18
+                stage, options, panel.outer.bodies, prefix=f"{prefix}outer-", opacity=0.18
             )
         reach = self._reach()
         if options.nodes:
             panel.overlays.update(
-                add_nodes(plotter, panel.state.nodal_surfaces(), reach, prefix=prefix)
+                add_nodes(stage, panel.state.nodal_surfaces(), reach, prefix=prefix)
             )
         if self.axis_lines:
-            panel.overlays["axis_lines"] = add_axis_lines(
-                plotter, AXIS_REACH * reach, prefix=prefix
-            )
+            panel.overlays["axis_lines"] = add_axis_lines(stage, AXIS_REACH * reach, prefix=prefix)
         self._current = k
 
     def _reach(self) -> float:
@@ -237,19 +229,14 @@ class Figure:
             float(np.abs(b.vertices).max()) for p in self.panels for m in p.shown for b in m.bodies
         )
 
-    def _screenshot(self, background: Any) -> np.ndarray:
-        self.plotter.set_background(background)
-        self.plotter.render()
-        return np.asarray(self.plotter.screenshot(return_img=True))
-
     def panel_image(self, k: int) -> np.ndarray:
         """Render panel k to an (H, W, 4) uint8 RGBA array (no annotations)."""
-        if self.plotter is None:
+        if self.stage is None:
             raise ParameterError("the figure is closed: make a new one to render again")
         self._show(k)
         if self.options.transparent:
-            black = self._screenshot("black").astype(np.float64) / 255.0
-            white = self._screenshot("white").astype(np.float64) / 255.0
+            black = self.stage.snapshot((0.0, 0.0, 0.0)).astype(np.float64) / 255.0
+            white = self.stage.snapshot((1.0, 1.0, 1.0)).astype(np.float64) / 255.0
             # difference matting: on black C = a F, on white C = a F + (1 - a)
             alpha = np.clip(1.0 - (white - black).mean(axis=2), 0.0, 1.0)
             colour = np.where(
@@ -258,7 +245,8 @@ class Figure:
             return np.round(255 * np.dstack([np.clip(colour, 0, 1), alpha])).astype(np.uint8)
         from PIL import ImageColor
 
-        rgb = self._screenshot(ImageColor.getrgb(self.options.background)[:3])
+        background = ImageColor.getrgb(self.options.background)[:3]
+        rgb = self.stage.snapshot(tuple(c / 255.0 for c in background))
         return np.dstack([rgb, np.full(rgb.shape[:2], 255, np.uint8)])
 
     # --------------------------------------------------------------- pages and files
@@ -320,11 +308,12 @@ class Figure:
         shrinking with the image; the title is left out (a thumbnail's caption names it). The
         render window is reused and restored afterwards.
         """
-        if self.plotter is None:
+        if self.stage is None:
             raise ParameterError("the figure is closed: make a new one to render again")
         import dataclasses
 
-        saved, window = self.options, list(self.plotter.window_size)
+        stage = self.stage
+        saved, window = self.options, stage.size
         cols = self.layout[0]
         self.options = dataclasses.replace(  # no title: a thumbnail's caption names it
             saved,
@@ -337,12 +326,12 @@ class Figure:
         )
         try:
             self._hide()
-            self.plotter.render_window.SetSize(*geometry(self.options, *self.layout).panel)
+            stage.resize(*geometry(self.options, *self.layout).panel)
             return self.page(show_progress=False).encode(".png")
         finally:
             self._hide()
             self.options = saved
-            self.plotter.render_window.SetSize(*window)  # the next screenshot renders anew
+            stage.resize(*window)  # the next snapshot renders anew
 
     def save(self, path: str | os.PathLike[str]) -> Path:
         """Render and write a PNG, TIFF, PDF or SVG (by suffix), all or nothing."""
@@ -365,12 +354,8 @@ def _compose(
             f"the page would be {page.width * page.height / 1e6:.0f} megapixels; at most "
             f"{LIMITS.image_megapixels:g}",
         )
-    panel_pixels = list(page.panel)
-    offscreen()
-    import pyvista
-
-    plotter = pyvista.Plotter(off_screen=True, window_size=panel_pixels, lighting="none")
-    fig = Figure(plotter, panels, options, (cols, rows), axis_lines=axis_lines)
+    stage = Stage(page.panel, samples=8)
+    fig = Figure(stage, panels, options, (cols, rows), axis_lines=axis_lines)
     fig.view = options.view or default_view(panels, oriented)
     try:
         vertices = np.vstack(
@@ -382,11 +367,8 @@ def _compose(
             tips = AXIS_REACH * 1.12 * fig._reach() * np.eye(3)
             vertices = np.vstack([vertices, tips, -tips])
         fig.half_height = frame(fig, vertices)
-        plotter.enable_anti_aliasing("msaa", multi_samples=8)
         if options.axes and not axis_lines:  # axes through the nucleus make the triad redundant
-            plotter.add_axes(  # type: ignore[call-arg]
-                line_width=3, labels_off=False, color="black", viewport=(0, 0, 0.16, 0.2)
-            )
+            stage.triad((0, 0, 0.16, 0.2), line_width=3)
     except BaseException:
         fig.close()
         raise
@@ -432,7 +414,7 @@ def figure(
     Returns
     -------
     Figure
-        ``figure.plotter`` is a ``pyvista.Plotter`` to adjust further; ``figure.image()``
+        ``figure.stage.renderer`` is the ``vtkRenderer`` to adjust further; ``figure.image()``
         renders it, ``figure.save(path)`` writes PNG, TIFF, PDF or SVG. Close it when done.
     """
     opts = checked(options or FigureOptions())

@@ -23,7 +23,8 @@ import numpy as np
 from orbviz._defaults import BOHR_IN_ANGSTROM, DEFAULTS
 from orbviz._options import checked
 from orbviz.figures.options import PlotOptions
-from orbviz.figures.page import PAGE_SUFFIXES, encode_figure
+from orbviz.figures.page import PAGE_SUFFIXES
+from orbviz.figures.paint import encode_figure
 from orbviz.figures.planes import choose_plane, panel_axes, plane_psi
 from orbviz.levels.isovalue import enclosing_isovalue
 from orbviz.states.state import NodalSurfaces, State
@@ -399,7 +400,7 @@ def save_figure(
     """Save a matplotlib figure as PNG, TIFF, PDF or SVG (by suffix), all or nothing.
 
     The file carries the figure's resolution (its ``dpi``), the title and the alt text as
-    metadata (see :func:`orbviz.figures.page.encode_figure`).
+    metadata (see :func:`orbviz.figures.paint.encode_figure`).
     """
     from orbviz.export import check_output, write_files
 

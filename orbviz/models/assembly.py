@@ -1,13 +1,13 @@
 """A kit's assembly sheet: an exploded view with the part codes, colours and order of assembly.
 
-The view is drawn off-screen with PyVista; matplotlib sets it beside the list of steps and
-writes the sheet as PNG and PDF.
+The view is drawn off-screen with VTK (:class:`orbviz.figures.stage.Stage`); matplotlib sets
+it beside the list of steps and writes the sheet as PNG and PDF.
 """
 
 from __future__ import annotations
 
 import io
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -72,32 +72,41 @@ def _camera(kit: Kit) -> np.ndarray:
 
 def _view(kit: Kit, width: int, height: int) -> np.ndarray:
     """Render the exploded kit off-screen and return the image."""
-    import pyvista as pv
+    from orbviz.figures import actors
+    from orbviz.figures.camera import lights
+    from orbviz.figures.stage import Stage
+    from orbviz.surface.convert import vtk_polydata
 
-    from orbviz.figures.figure import offscreen
-
-    offscreen()  # EGL, as every figure: no X server probe, no warning
-    plotter: Any = pv.Plotter(off_screen=True, window_size=[width, height])
-    plotter.set_background("white")
-    points, names = [], []
-    for part in kit.parts:
-        v, f = arrays(part.solid)
-        v = v + _exploded(part, kit)
-        faces = np.hstack([np.full((len(f), 1), 3), f]).ravel()
-        rgba = kit.model.colors.get(part.color, (190, 190, 190, 255))
-        plotter.add_mesh(
-            pv.PolyData(v, faces), color=np.array(rgba[:3]) / 255, smooth_shading=False
-        )
-        points.append(0.5 * (v.min(axis=0) + v.max(axis=0)))
-        names.append(part.code)
-    plotter.add_point_labels(
-        np.array(points), names, font_size=18, point_size=1, shape_opacity=0.8, always_visible=True
-    )
-    plotter.camera_position = [tuple(_camera(kit)), (0.0, 0.0, 0.0), (0.0, 0.0, 1.0)]
-    plotter.reset_camera()
-    image = plotter.screenshot(return_img=True)
-    plotter.close()
-    return np.asarray(image)
+    stage = Stage((width, height))
+    try:
+        for part in kit.parts:
+            v, f = arrays(part.solid)
+            v = v + _exploded(part, kit)
+            rgba = kit.model.colors.get(part.color, (190, 190, 190, 255))
+            colour = tuple(np.array(rgba[:3]) / 255)
+            stage.add(part.code, actors.surface(vtk_polydata(v, f), color=colour, ambient=0.2))
+            code = actors.label(
+                part.code,
+                0.5 * (v.min(axis=0) + v.max(axis=0)),
+                font_size=18,
+                color=(0.0, 0.0, 0.0),
+                box=(0.85, 0.85, 0.85),
+            )
+            stage.add(f"{part.code}-label", code)
+        toward = _camera(kit)
+        right = np.cross([0.0, 0.0, 1.0], toward)
+        right /= np.linalg.norm(right)
+        up = np.cross(toward, right)
+        camera = stage.renderer.GetActiveCamera()
+        camera.ParallelProjectionOff()
+        camera.SetFocalPoint(0.0, 0.0, 0.0)
+        camera.SetPosition(*toward)
+        camera.SetViewUp(0.0, 0.0, 1.0)
+        stage.renderer.ResetCamera()
+        stage.light(lights("studio", toward, right, up))
+        return stage.snapshot((1.0, 1.0, 1.0))
+    finally:
+        stage.close()
 
 
 def exploded_png(kit: Kit, size: tuple[int, int]) -> bytes:

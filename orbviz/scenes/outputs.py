@@ -75,7 +75,7 @@ class _Plots:
 
     def files(self, out: Path) -> dict[Path, bytes]:
         """Return every plot file, encoded with its resolution, title and alt text."""
-        from orbviz.figures.page import encode_figure
+        from orbviz.figures.paint import encode_figure
 
         files = {}
         for kind in self.kinds:
@@ -91,7 +91,7 @@ class _Plots:
 
         The text keeps its point sizes at 150 dpi, so it reads at 320 pixels.
         """
-        from orbviz.figures.page import encode_figure
+        from orbviz.figures.paint import encode_figure
 
         width_mm = THUMBNAIL[0] / 150 * 25.4
         fig, alt = self._make(self.kinds[0].split(".")[0], width=width_mm, height=None, dpi=150)

@@ -1,4 +1,4 @@
-"""The bodies as trimesh and PyVista objects: one named geometry per body, materials complete.
+"""The bodies as trimesh, VTK and PyVista objects: one named geometry per body, materials complete.
 
 A real state's bodies each get a matte PBR material in their phase colour; a complex state's
 surface gets per-vertex phase colours under a matte white material (glTF's default material is
@@ -15,7 +15,14 @@ import numpy as np
 
 from orbviz.surface.contour import Body
 
-__all__ = ["ROUGHNESS", "body_trimesh", "combined_trimesh", "pyvista_blocks", "trimesh_scene"]
+__all__ = [
+    "ROUGHNESS",
+    "body_trimesh",
+    "combined_trimesh",
+    "pyvista_blocks",
+    "trimesh_scene",
+    "vtk_polydata",
+]
 
 ROUGHNESS = 0.6  # of every body's matte material
 
@@ -122,3 +129,49 @@ def pyvista_blocks(bodies: Sequence[Body]) -> Any:
         poly.point_data.active_normals_name = "Normals"
         blocks.append(poly, body.name)
     return blocks
+
+
+def vtk_polydata(
+    vertices: np.ndarray,
+    faces: np.ndarray,
+    *,
+    normals: np.ndarray | None = None,
+    colors: np.ndarray | None = None,
+) -> Any:
+    """Return triangles as a ``vtkPolyData`` (VTK's own modules: no PyVista import).
+
+    Parameters
+    ----------
+    vertices : (V, 3) ndarray
+        Positions.
+    faces : (F, 3) ndarray of int
+        Triangles.
+    normals : (V, 3) ndarray, optional
+        Point normals, set as the active normals.
+    colors : (V, 4) ndarray of uint8, optional
+        RGBA per point, set as the active scalars (named ``RGBA``).
+    """
+    from vtkmodules.util.numpy_support import numpy_to_vtk, numpy_to_vtkIdTypeArray
+    from vtkmodules.vtkCommonCore import vtkPoints
+    from vtkmodules.vtkCommonDataModel import vtkCellArray, vtkPolyData
+
+    points = vtkPoints()
+    points.SetData(numpy_to_vtk(np.ascontiguousarray(vertices), deep=True))
+    cells = vtkCellArray()
+    offsets = np.arange(0, 3 * len(faces) + 1, 3, dtype=np.int64)
+    cells.SetData(
+        numpy_to_vtkIdTypeArray(offsets, deep=True),
+        numpy_to_vtkIdTypeArray(np.ascontiguousarray(faces, dtype=np.int64).ravel(), deep=True),
+    )
+    poly = vtkPolyData()
+    poly.SetPoints(points)
+    poly.SetPolys(cells)
+    if normals is not None and len(normals):
+        array = numpy_to_vtk(np.ascontiguousarray(normals, dtype=np.float32), deep=True)
+        array.SetName("Normals")
+        poly.GetPointData().SetNormals(array)
+    if colors is not None and len(colors):
+        array = numpy_to_vtk(np.ascontiguousarray(colors, dtype=np.uint8), deep=True)
+        array.SetName("RGBA")
+        poly.GetPointData().SetScalars(array)
+    return poly

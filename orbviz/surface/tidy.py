@@ -34,22 +34,12 @@ def decimate(body: Body, target_faces: int) -> Body:
     """
     if target_faces >= len(body.faces):
         return body
-    from vtkmodules.util.numpy_support import numpy_to_vtk, numpy_to_vtkIdTypeArray, vtk_to_numpy
-    from vtkmodules.vtkCommonCore import vtkPoints
-    from vtkmodules.vtkCommonDataModel import vtkCellArray, vtkPolyData
+    from vtkmodules.util.numpy_support import vtk_to_numpy
     from vtkmodules.vtkFiltersCore import vtkQuadricDecimation
 
-    points = vtkPoints()
-    points.SetData(numpy_to_vtk(body.vertices, deep=True))
-    cells = vtkCellArray()
-    offsets = np.arange(0, 3 * len(body.faces) + 1, 3, dtype=np.int64)
-    cells.SetData(
-        numpy_to_vtkIdTypeArray(offsets, deep=True),
-        numpy_to_vtkIdTypeArray(body.faces.astype(np.int64).ravel(), deep=True),
-    )
-    poly = vtkPolyData()
-    poly.SetPoints(points)
-    poly.SetPolys(cells)
+    from orbviz.surface.convert import vtk_polydata
+
+    poly = vtk_polydata(body.vertices, body.faces)
     reducer = vtkQuadricDecimation()
     reducer.SetInputData(poly)
     reducer.SetTargetReduction(1.0 - target_faces / len(body.faces))
