@@ -5,6 +5,7 @@ alt text from the physics, and slices whose nodes stand out.
 from __future__ import annotations
 
 import math
+import re
 
 import numpy as np
 import pytest
@@ -477,3 +478,51 @@ def test_the_phase_wheel_takes_the_emptier_top_corner(inked, expected_side):
     (wheel,) = [m for m in page.marks if isinstance(m, Picture) and m.smooth]  # the ring
     side = "left" if wheel.left + wheel.width / 2 < page.pixels[0] / 2 else "right"
     assert side == expected_side
+
+
+def test_a_tiny_figure_still_draws_its_words_and_key(tmp_path):
+    # FreeType refuses fonts under one pixel; the key and the scale bar shrink with the page
+    out = tmp_path / "x.png"
+    assert main(["render", "2pz", "--grid", "32", "--size", "16x16", "-o", str(out)]) == 0
+    with Image.open(out) as image:
+        assert image.size == (16, 16)
+
+
+def test_a_css_hsl_background_reaches_vector_pages(tmp_path):
+    import colorsys  # the standard library's HLS conversion, independent of Pillow's parser
+
+    svg = tmp_path / "x.svg"
+    colour = "hsl(200, 30%, 90%)"
+    assert main(["render", "2pz", "--grid", "32", "--background", colour, "-o", str(svg)]) == 0
+    expected = colorsys.hls_to_rgb(200 / 360, 0.90, 0.30)
+    fills = {m for m in re.findall(r"fill: ?#([0-9a-f]{6})", svg.read_text())}
+    near = [
+        f
+        for f in fills
+        if max(
+            abs(int(f[i : i + 2], 16) - 255 * e) for i, e in zip((0, 2, 4), expected, strict=True)
+        )
+        <= 1
+    ]
+    assert near, f"no fill near {expected} among {sorted(fills)}"
+    assert (
+        main(
+            ["render", "2pz", "--grid", "32", "--background", colour, "-o", str(tmp_path / "x.pdf")]
+        )
+        == 0
+    )
+
+
+def test_the_scale_bar_label_clears_its_bar(tmp_path):
+    out = tmp_path / "x.png"
+    assert main(["render", "3d", "--grid", "48", "--size", "800x600", "-o", str(out)]) == 0
+    with Image.open(out) as image:  # a sheet: its bar and label are small
+        ink = np.asarray(image.convert("L"))[-60:, -120:] < 128  # the bottom right corner
+    rows = ink.sum(axis=1)
+    bar = int(np.argmax(rows))  # the bar is the widest run of ink there
+    assert rows[bar] > 20
+    top = bar
+    while top > 0 and rows[top - 1] > 0.5 * rows[bar]:  # up to the bar's top edge
+        top -= 1
+    above = np.nonzero(rows[:top])[0]  # the label's ink
+    assert len(above) and top - 1 - above.max() >= 2, "the label touches the bar"

@@ -172,7 +172,7 @@ def add_axis_lines(stage: Stage, radius: float, *, prefix: str = "") -> list[str
             stage.add(f"{prefix}axis-{letter}", actors.surface(axis, color=_AXIS_INK, line_width=2))
         )
         tip = actors.label(
-            letter, tuple(1.06 * radius * direction), font_size=font_size, color=_AXIS_INK
+            letter, tuple(1.12 * radius * direction), font_size=font_size, color=_AXIS_INK
         )
         names.append(stage.add(f"{prefix}axis-label-{letter}", tip))
     return names

@@ -30,7 +30,8 @@ __all__ = ["encode_figure", "encode_page", "encode_raster", "raster"]
 _EDGE_PT = 0.5  # a swatch's ink edge
 _PNG_LEVEL = 3  # zlib: half the time of the default 6 for ~40% more bytes (1600 x 1200 3dz2)
 _ANCHOR_X = {"left": "l", "center": "m", "right": "r"}
-_ANCHOR_Y = {"top": "t", "center": "m", "bottom": "b", "baseline": "s"}
+# matplotlib's "bottom" takes in the descenders; Pillow's "d" is that line, "b" the glyphs' own
+_ANCHOR_Y = {"top": "t", "center": "m", "bottom": "d", "baseline": "s"}
 
 
 def _font_file() -> Path:
@@ -45,7 +46,7 @@ def _font_file() -> Path:
 def _font(pixels: float) -> Any:
     from PIL import ImageFont
 
-    return ImageFont.truetype(str(_font_file()), size=pixels)
+    return ImageFont.truetype(str(_font_file()), size=max(1.0, pixels))  # FreeType: ppem ≥ 1
 
 
 def raster(page: Page) -> PILImage.Image:
@@ -78,14 +79,17 @@ def raster(page: Page) -> PILImage.Image:
             font = _font(mark.size * points)
             pen.text((mark.x, flip(mark.y)), mark.text, fill=255, font=font, anchor=anchor)
         elif isinstance(mark, Swatch):  # Pillow's boxes include both end pixels
+            side = max(1, round(mark.size))
             left, top = round(mark.left), round(flip(mark.bottom + mark.size))
-            square = [left, top, left + round(mark.size) - 1, top + round(mark.size) - 1]
+            square = [left, top, left + side - 1, top + side - 1]
             brush.rectangle(square, fill=(*mark.colour, 255))
             pen.rectangle(square, outline=255, width=max(1, round(_EDGE_PT * points)))
         elif isinstance(mark, Rule):
             thick = max(1, round(mark.width * points))
             top = round(flip(mark.y) - thick / 2)
-            pen.rectangle([round(mark.x0), top, round(mark.x1) - 1, top + thick - 1], fill=255)
+            x0 = round(mark.x0)
+            x1 = max(x0, round(mark.x1) - 1)  # at least one pixel wide
+            pen.rectangle([x0, top, x1, top + thick - 1], fill=255)
     colour = Image.new("RGBA", (width, height), (*INK, 255))
     colour.putalpha(ink)
     canvas.alpha_composite(colour)
@@ -97,13 +101,16 @@ def _vector(page: Page) -> Any:
     from matplotlib.backends.backend_agg import FigureCanvasAgg
     from matplotlib.figure import Figure
     from matplotlib.patches import Rectangle
+    from PIL import ImageColor
 
     width, height = page.pixels
     ink = tuple(c / 255 for c in INK)
     figure = Figure(figsize=(width / page.dpi, height / page.dpi), dpi=page.dpi)
     FigureCanvasAgg(figure)
     figure.patch.set_alpha(0.0 if page.options.transparent else 1.0)
-    figure.patch.set_facecolor(page.options.background)
+    # any colour Pillow reads (hsl(...) included), as matplotlib's 0-1 RGB
+    red, green, blue = ImageColor.getrgb(page.options.background)[:3]
+    figure.patch.set_facecolor((red / 255, green / 255, blue / 255))
     ax = figure.add_axes((0.0, 0.0, 1.0, 1.0), facecolor="none")
     ax.set_xlim(0, width)
     ax.set_ylim(0, height)

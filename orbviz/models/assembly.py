@@ -84,7 +84,8 @@ def _view(kit: Kit, width: int, height: int) -> np.ndarray:
             v = v + _exploded(part, kit)
             rgba = kit.model.colors.get(part.color, (190, 190, 190, 255))
             colour = tuple(np.array(rgba[:3]) / 255)
-            stage.add(part.code, actors.surface(vtk_polydata(v, f), color=colour, ambient=0.2))
+            shape = actors.surface(vtk_polydata(v, f), color=colour, ambient=0.18, diffuse=0.85)
+            stage.add(part.code, shape)  # the figures' material, under their soft lights
             code = actors.label(
                 part.code,
                 0.5 * (v.min(axis=0) + v.max(axis=0)),
@@ -103,7 +104,7 @@ def _view(kit: Kit, width: int, height: int) -> np.ndarray:
         camera.SetPosition(*toward)
         camera.SetViewUp(0.0, 0.0, 1.0)
         stage.renderer.ResetCamera()
-        stage.light(lights("studio", toward, right, up))
+        stage.light(lights("soft", toward, right, up))
         return stage.snapshot((1.0, 1.0, 1.0))
     finally:
         stage.close()
