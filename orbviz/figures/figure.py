@@ -3,8 +3,8 @@
 A figure is a page of panels (:mod:`orbviz.figures.page`), each an orthographic view of one
 state's phase-coloured bodies. Every panel shares one camera, one lighting and one scale: the
 view is framed so that the largest surface fills about 80% of a panel, or to a fixed extent.
-Lighting is three-point, shading smooth from the bodies' gradient normals, and anti-aliasing
-multisampled. Transparent images are made by difference matting (the scene on black and on
+Lighting is three-point, shading smooth from the bodies' gradient normals, and edges smoothed
+by FXAA (:class:`~orbviz.figures.stage.Stage`). Transparent images are made by difference matting (the scene on black and on
 white), so edges carry true partial alpha with no halo. Labels, the phase key and the scale bar
 are vector text drawn on the page; the alt text is made from the physics (:mod:`.alt`).
 
@@ -354,7 +354,7 @@ def _compose(
             f"the page would be {page.width * page.height / 1e6:.0f} megapixels; at most "
             f"{LIMITS.image_megapixels:g}",
         )
-    stage = Stage(page.panel, samples=8)
+    stage = Stage(page.panel)
     fig = Figure(stage, panels, options, (cols, rows), axis_lines=axis_lines)
     fig.view = options.view or default_view(panels, oriented)
     try:

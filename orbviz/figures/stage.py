@@ -4,7 +4,10 @@ Figures are drawn with VTK's own rendering modules. A plotting wrapper would do 
 drawing, but importing one here costs about 1 s (it imports matplotlib.pyplot at start-up)
 against 0.25 s for the modules a figure uses, and a figure command is short.
 
-The render window is EGL off-screen (no display, no X server probe), multisampled.
+The render window is EGL off-screen (no display, no X server probe). Edges are smoothed by
+FXAA, a screen-space pass, by default: in the software renderer 8x multisampling costs about
+0.15 s more a 1600x1200 frame for edges that differ little (benchmarks/bench_antialias.py
+measures both against a 4x4 supersampled frame).
 :class:`Stage` keeps its actors by name, so a figure takes one panel's actors away and shows
 the next in the same window; ``renderer`` and ``window`` are the VTK objects, to adjust freely.
 """
@@ -38,8 +41,9 @@ class Stage:
     ----------
     size : (int, int)
         Width and height of the window, pixels.
-    samples : int, default: 8
-        Multisamples per pixel (anti-aliasing).
+    antialias : {"fxaa", "msaa", "none"}, default: "fxaa"
+        How edges are smoothed: FXAA (a pass over the finished frame), 8x multisampling, or
+        not at all.
 
     Attributes
     ----------
@@ -49,7 +53,7 @@ class Stage:
         The off-screen window.
     """
 
-    def __init__(self, size: tuple[int, int], *, samples: int = 8) -> None:
+    def __init__(self, size: tuple[int, int], *, antialias: str = "fxaa") -> None:
         offscreen()
         import vtkmodules.vtkRenderingFreeType  # noqa: F401  (text)
         import vtkmodules.vtkRenderingOpenGL2  # noqa: F401  (the OpenGL implementations)
@@ -60,7 +64,10 @@ class Stage:
         self.renderer.GetActiveCamera().ParallelProjectionOn()
         self.window = vtkRenderWindow()
         self.window.SetOffScreenRendering(1)
-        self.window.SetMultiSamples(samples)
+        if antialias not in ("fxaa", "msaa", "none"):
+            raise ValueError(f"antialias {antialias!r}: one of fxaa, msaa, none")
+        self.renderer.SetUseFXAA(antialias == "fxaa")
+        self.window.SetMultiSamples(8 if antialias == "msaa" else 0)
         self.window.SetSize(*size)
         self.window.AddRenderer(self.renderer)
         self._props: dict[str, Any] = {}
@@ -157,6 +164,7 @@ class Stage:
         corner.SetViewport(*viewport)
         corner.SetLayer(1)
         corner.InteractiveOff()
+        corner.SetUseFXAA(self.renderer.GetUseFXAA())
         corner.AddViewProp(axes)
         self.window.SetNumberOfLayers(2)
         self.window.AddRenderer(corner)
