@@ -4,9 +4,10 @@ A figure is a page of panels (:mod:`orbviz.figures.page`), each an orthographic 
 state's phase-coloured bodies. Every panel shares one camera, one lighting and one scale: the
 view is framed so that the largest surface fills about 80% of a panel, or to a fixed extent.
 Lighting is three-point, shading smooth from the bodies' gradient normals, and edges smoothed
-by FXAA (:class:`~orbviz.figures.stage.Stage`). Transparent images are made by difference matting (the scene on black and on
-white), so edges carry true partial alpha with no halo. Labels, the phase key and the scale bar
-are vector text drawn on the page; the alt text is made from the physics (:mod:`.alt`).
+by FXAA (:class:`~orbviz.figures.stage.Stage`). Transparent images are made by difference
+matting (the scene on black and on white), so edges carry true partial alpha with no halo.
+Labels, the phase key and the scale bar are vector text drawn on the page; the alt text is
+made from the physics (:mod:`.alt`).
 
 A :class:`Figure` holds an off-screen render window (:class:`~orbviz.figures.stage.Stage`):
 close it when done (it is a context

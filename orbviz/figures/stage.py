@@ -5,9 +5,10 @@ drawing, but importing one here costs about 1 s (it imports matplotlib.pyplot at
 against 0.25 s for the modules a figure uses, and a figure command is short.
 
 The render window is EGL off-screen (no display, no X server probe). Edges are smoothed by
-FXAA, a screen-space pass, by default: in the software renderer 8x multisampling costs about
-0.15 s more a 1600x1200 frame for edges that differ little (benchmarks/bench_antialias.py
-measures both against a 4x4 supersampled frame).
+FXAA, a screen-space pass, by default: in the software renderer a 1600x1200 frame takes
+0.09 s with it and 0.14 s with 8x multisampling, for edges about as close to a 4x4
+supersampled frame (benchmarks/bench_antialias.py), and two batch workers' multisampled
+frames contend for the cores.
 :class:`Stage` keeps its actors by name, so a figure takes one panel's actors away and shows
 the next in the same window; ``renderer`` and ``window`` are the VTK objects, to adjust freely.
 """
@@ -16,7 +17,7 @@ from __future__ import annotations
 
 import os
 from collections.abc import Sequence
-from typing import Any
+from typing import Any, Literal
 
 import numpy as np
 
@@ -53,7 +54,9 @@ class Stage:
         The off-screen window.
     """
 
-    def __init__(self, size: tuple[int, int], *, antialias: str = "fxaa") -> None:
+    def __init__(
+        self, size: tuple[int, int], *, antialias: Literal["fxaa", "msaa", "none"] = "fxaa"
+    ) -> None:
         offscreen()
         import vtkmodules.vtkRenderingFreeType  # noqa: F401  (text)
         import vtkmodules.vtkRenderingOpenGL2  # noqa: F401  (the OpenGL implementations)
