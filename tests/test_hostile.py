@@ -698,3 +698,15 @@ def test_batch_into_a_folder_whose_thumbs_is_a_file(capsys, tmp_path):
     err = capsys.readouterr().err
     assert status == 2 and "thumbs" in err and "is not a folder" in err
     assert (out / "thumbs").read_text() == "mine"
+
+
+@pytest.mark.slow
+def test_a_level_the_solver_cannot_converge_on_is_refused_in_one_line(tmp_path, capsys):
+    # found by test_fuzz_scene_text: "73s" under a table of -1/r to 60 bohr made ARPACK give up
+    # (ArpackNoConvergence) and the command print an internal error
+    r = np.geomspace(1e-3, 60.0, 300)
+    np.savetxt(tmp_path / "well.dat", np.c_[r, -1.0 / r])
+    status = main(["info", "73s", "--potential", f"table:{tmp_path / 'well.dat'}"])
+    err = capsys.readouterr().err
+    assert status == 2 and "n=73" in err and "internal error" not in err, err
+    assert err.count("\n") == 1

@@ -130,11 +130,17 @@ def _state(
 
     Returns the level, the radii and u = r R, normalised and positive near the nucleus.
     """
-    from scipy.sparse.linalg import eigs
+    from scipy.sparse.linalg import ArpackNoConvergence, eigs
 
     L, M, r, h = _pencil(potential, l, x)
     count = min(4, x.size - 3)
-    values, vectors = eigs(L, k=count, M=M, sigma=shift, which="LM", tol=1e-14)
+    try:
+        values, vectors = eigs(L, k=count, M=M, sigma=shift, which="LM", tol=1e-14)
+    except ArpackNoConvergence:  # a level far outside what the grid resolves (73s in a table)
+        raise NoBoundState(
+            f"the solver finds no level with {k} radial nodes near {shift:.4g} hartree "
+            "(its eigenvalue search did not converge)"
+        ) from None
     pairs = sorted(zip(values.real, vectors.T.real, strict=True), key=lambda p: p[0])
     for value, phi in pairs:
         u = phi * np.sqrt(r)  # u = e^{x/2} phi
