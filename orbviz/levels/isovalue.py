@@ -24,6 +24,7 @@ import numpy as np
 
 from orbviz._defaults import DEFAULTS, LIMITS
 from orbviz.errors import ParameterError
+from orbviz.levels.ray_cells import RayCellLevels
 from orbviz.levels.rays import RayLevels, RayQuadrature
 from orbviz.levels.shell import ShellQuadrature
 from orbviz.states.state import State
@@ -74,7 +75,7 @@ class Isovalue:
 
 # the ray quadratures of the last level solved without its check, for check_isovalue to reuse
 # (a mesh solves first and checks only when a report asks): (state, level, quadratures)
-_UNCHECKED: list[tuple[State, float, RayLevels]] = []
+_UNCHECKED: list[tuple[State, float, RayLevels | RayCellLevels]] = []
 
 
 def check_fraction(fraction: object) -> float:
@@ -156,7 +157,7 @@ def enclosing_isovalue(
         reach_max = solve.max_radius(level)
         iso = Isovalue(level, fraction, math.nan, reach_max, solve.method, reach, thin)
         return _checked(state, iso, None) if check else iso
-    rays = RayLevels(state, fraction=fraction)
+    rays = _levels(state, fraction=fraction)
     log_level = rays.solve(fraction)
     for _ in range(6):  # the scout's level was off by more than the window: move it
         if log_level is not None:
@@ -170,7 +171,7 @@ def enclosing_isovalue(
             "bond, a smaller Z or R helps)"
         )
     level = math.exp(log_level)
-    iso = Isovalue(level, fraction, math.nan, rays.quadrature(2.0).max_radius(level), "rays")
+    iso = Isovalue(level, fraction, math.nan, rays.rough_reach(level), "rays")
     if check:
         return _checked(state, iso, rays)
     _UNCHECKED[:] = [(state, level, rays)]  # a later check_isovalue reuses these quadratures
@@ -197,12 +198,22 @@ def check_isovalue(state: State, iso: Isovalue, /) -> Isovalue:
     rays = None
     if len(state.shells) > 1:
         kept = [r for s, level, r in _UNCHECKED if s is state and level == iso.level]
-        rays = kept[0] if kept else RayLevels(state, log_level=math.log(iso.level))
+        rays = kept[0] if kept else _levels(state, log_level=math.log(iso.level))
         _UNCHECKED.clear()
     return _checked(state, iso, rays)
 
 
-def _checked(state: State, iso: Isovalue, rays: RayLevels | None) -> Isovalue:
+def _levels(
+    state: State, fraction: float | None = None, log_level: float | None = None
+) -> RayLevels | RayCellLevels:
+    """Fans of rays with a cell model for one centre at the origin; windowed rays otherwise."""
+    centres = state.centres
+    if len(centres) == 1 and centres[0].z == 0.0:
+        return RayCellLevels(state, fraction=fraction, log_level=log_level)
+    return RayLevels(state, fraction=fraction, log_level=log_level)
+
+
+def _checked(state: State, iso: Isovalue, rays: RayLevels | RayCellLevels | None) -> Isovalue:
     """Check a level as :func:`enclosing_isovalue` does: a finer shell table, or Richardson."""
     from orbviz.levels.reach import polished_max_radius
 
@@ -212,6 +223,6 @@ def _checked(state: State, iso: Isovalue, rays: RayLevels | None) -> Isovalue:
         rough = shell.max_radius(iso.level)
     else:
         achieved = rays.achieved(math.log(iso.level))
-        rough = rays.quadrature(2.0).max_radius(iso.level)
+        rough = rays.rough_reach(iso.level)
     reach = polished_max_radius(state, iso.level, rough)
     return dataclasses.replace(iso, enclosed_fraction=achieved, max_radius=reach)

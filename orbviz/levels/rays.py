@@ -336,6 +336,10 @@ class RayLevels:
             guess = max(guess, self.window[1] + _WINDOW)
         return RayLevels(self.state, log_level=guess, scout=self.scout)
 
+    def rough_reach(self, level: float) -> float:
+        """Largest radius at which a ray of the finest quadrature reaches the level (bohr)."""
+        return self.quadrature(2.0).max_radius(level)
+
     def achieved(self, log_level: float) -> float:
         """Probability the level encloses, by the checking extrapolation."""
         return float(self.extrapolated((1.5, 2.0), np.array([log_level]))[0])
