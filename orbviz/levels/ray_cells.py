@@ -23,11 +23,13 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable
+from dataclasses import dataclass
 
 import numpy as np
 
 from orbviz._defaults import DEFAULTS
 from orbviz.errors import ParameterError
+from orbviz.levels.fields import field_parity
 from orbviz.levels.shell import unit_vectors
 from orbviz.states.state import State
 from orbviz.states.symmetry import symmetry_frame
@@ -130,13 +132,43 @@ def _pieces(
     return [(np.zeros_like(s), left), (left, right), (right, np.ones_like(s))]
 
 
-def _fan(rings: int, axial: bool) -> tuple[np.ndarray, np.ndarray, float, float]:
-    """Polar midpoints, azimuths (one if ``axial``), and the two angular steps."""
+@dataclass(frozen=True)
+class _Fan:
+    """Ray directions: rings of equal polar steps, each with equal azimuth steps.
+
+    Mirror planes of |psi|^2 shrink the range (z = 0: the northern rings only; x = 0 and y = 0:
+    part of the azimuths), at the same steps, with the solid angles multiplied to match.
+    """
+
+    polar: np.ndarray
+    azimuth: np.ndarray
+    solid: np.ndarray  # solid angle each ray of a ring stands for (mirror images included)
+    equator_mirror: bool  # the last ring's neighbour across z = 0 is its own image
+    azimuth_ends: str  # "wrap" (a full circle), "mirror" (mirror planes) or "one"
+
+
+def _fan(rings: int, axial: bool, mirror: tuple[bool, bool, bool]) -> _Fan:
+    """Return the fan of ``rings`` polar steps over the sphere, cut down by its mirror planes."""
     d_polar = math.pi / rings
-    polar = (np.arange(rings) + 0.5) * d_polar
-    count = 1 if axial else 2 * rings
-    d_azimuth = 2 * math.pi / count
-    return polar, np.arange(count) * d_azimuth, d_polar, d_azimuth
+    polar = (np.arange(rings // 2 if mirror[2] else rings) + 0.5) * d_polar
+    copies = 2.0 if mirror[2] else 1.0
+    azimuth: np.ndarray
+    if axial:
+        azimuth, d_azimuth, ends = np.zeros(1), 2 * math.pi, "one"
+    else:
+        low, high = {
+            (True, True): (0.0, 0.5 * math.pi),
+            (False, True): (0.0, math.pi),  # y -> -y: azimuth -> -azimuth
+            (True, False): (-0.5 * math.pi, 0.5 * math.pi),  # x -> -x: azimuth -> pi - azimuth
+            (False, False): (0.0, 2 * math.pi),
+        }[(mirror[0], mirror[1])]
+        d_azimuth = math.pi / rings
+        count = round((high - low) / d_azimuth)
+        azimuth = low + (np.arange(count) + 0.5) * d_azimuth
+        copies *= 2 * math.pi / (high - low)
+        ends = "mirror" if mirror[0] or mirror[1] else "wrap"
+    solid = np.sin(polar) * d_polar * d_azimuth * copies
+    return _Fan(polar, azimuth, solid, mirror[2], ends)
 
 
 class _Rays:
@@ -147,6 +179,8 @@ class _Rays:
         self.orbital, self.weight = centre.orbital, abs(centre.weight) ** 2
         self.shells = sorted(set(self.orbital.shells))
         self.frame = symmetry_frame(state.centres, is_real=state.is_real)
+        parity = (0, 0, 0) if self.frame is not None else field_parity(state)
+        self.mirror = (parity[0] != 0, parity[1] != 0, parity[2] != 0)
         self.h = 1.0 / radii
         self.u = np.arange(-1, radii + 2) * self.h  # one ghost inside r = 0, two beyond r_max
         self.r_max = r_max
@@ -190,39 +224,46 @@ class RayCellQuadrature:
 
     def __init__(self, rays: _Rays, rings: int, window: tuple[float, float]) -> None:
         self.rings, self.window, self.lump = rings, window, 0.0
-        polar, azimuth, d_polar, d_azimuth = _fan(rings, rays.frame is not None)
-        self.steps = (d_polar, d_azimuth)
+        fan = self.fan = _fan(rings, rays.frame is not None, rays.mirror)
         self.column_max = np.zeros(rays.u.size, dtype=np.float32)
         kept: list[dict[str, np.ndarray]] = []
-        block = max(1, DEFAULTS.ray_block // (4 * azimuth.size * rays.u.size))
-        for first in range(0, rings, block):
-            kept.append(self._block(rays, polar, azimuth, first, block))
+        block = max(1, DEFAULTS.ray_block // (4 * fan.azimuth.size * rays.u.size))
+        for first in range(0, fan.polar.size, block):
+            kept.append(self._block(rays, first, block))
         cells = {k: np.concatenate([part[k] for part in kept], axis=-1) for k in kept[0]}
         order = np.argsort(cells["low"], kind="stable")  # cells below a level: a prefix
         # mass of the cells whole at a level: those from searchsorted(low, level) on
         self.tail = np.concatenate([np.cumsum(cells["mass"][order][::-1])[::-1], [0.0]])
         del cells["mass"]
         self.cells = {k: v[..., order] for k, v in cells.items()}  # about 56 bytes a cell
-        self.solid = np.sin(polar) * d_polar * d_azimuth  # solid angle of a ray of each ring
 
-    def _block(
-        self, rays: _Rays, polar: np.ndarray, azimuth: np.ndarray, first: int, block: int
-    ) -> dict[str, np.ndarray]:
+    def _block(self, rays: _Rays, first: int, block: int) -> dict[str, np.ndarray]:
         """Sample rings first .. first + block - 1 (and a ring either side); keep their cells."""
-        rings = polar.size
+        fan = self.fan
+        rings = fan.polar.size
         lo, hi = max(first - 1, 0), min(first + block + 1, rings)
-        dens = rays.density(polar[lo:hi], azimuth)
+        dens = rays.density(fan.polar[lo:hi], fan.azimuth)
         own = np.arange(first, min(first + block, rings))
         f = dens[own - lo]
         np.maximum(self.column_max, f.max(axis=(0, 1)), out=self.column_max)
-        # half-ranges across a cell: a quarter of the central difference (one-sided at the poles)
+        # half-ranges across a cell: a quarter of the central difference; one-sided at a pole,
+        # and across z = 0 the neighbour is the ring's own mirror image
         above, below = np.minimum(own + 1, rings - 1), np.maximum(own - 1, 0)
+        span = above - below
+        if fan.equator_mirror:
+            span[own == rings - 1] = 2
         a = np.abs(dens[above - lo] - dens[below - lo])
-        a /= (2 * (above - below)).astype(np.float32)[:, None, None]
-        b = np.abs(np.roll(f, -1, axis=1) - np.roll(f, 1, axis=1)) * np.float32(0.25)
-        solid = np.sin(polar[own]) * self.steps[0] * self.steps[1]
-        weight = np.repeat(solid, azimuth.size)
-        ring = np.repeat(own.astype(np.int32), azimuth.size)
+        a /= (2 * span).astype(np.float32)[:, None, None]
+        if fan.azimuth_ends == "wrap":
+            b = np.abs(np.roll(f, -1, axis=1) - np.roll(f, 1, axis=1))
+        elif fan.azimuth_ends == "mirror":
+            padded = np.pad(f, ((0, 0), (1, 1), (0, 0)), mode="symmetric")
+            b = np.abs(padded[:, 2:] - padded[:, :-2])
+        else:
+            b = np.zeros_like(f)
+        b *= np.float32(0.25)
+        weight = np.repeat(fan.solid[own], fan.azimuth.size)
+        ring = np.repeat(own.astype(np.int32), fan.azimuth.size)
         f, a, b = (x.reshape(-1, rays.u.size) for x in (f, a, b))
         # a radial cell j spans samples j + 1 and j + 2 (sample 0 is the ghost inside r = 0)
         g = f.astype(np.float64) * rays.jacobian
@@ -263,13 +304,19 @@ class RayCellQuadrature:
         names = {f"c{k}": row for k, row in enumerate(coef)}
         names.update(zip(("a0", "da", "b0", "db"), spreads, strict=True))
         names.update(u0=rays.u[cells["cell"][part] + 1], h=rays.h, level=level, half=0.5 * level)
-        inside = np.zeros(part.size)
-        for low, high in _pieces(coef, spreads, level):
-            for s, w in zip(_GAUSS_S, _GAUSS_W, strict=True):
-                names["at"] = low + s * (high - low)
-                names["scale"] = w * (high - low)
-                inside += _integrand(names)
-        weight = self.solid[cells["ring"][part]]
+        # the Gauss nodes of the three pieces of each cell, (9, cells) at once, in chunks
+        ends = np.array(_pieces(coef, spreads, level))  # (piece, low/high, cells)
+        width = ends[:, 1] - ends[:, 0]
+        nodes = (ends[:, None, 0] + _GAUSS_S[None, :, None] * width[:, None]).reshape(9, -1)
+        scale = (_GAUSS_W[None, :, None] * width[:, None]).reshape(9, -1)
+        inside = np.empty(part.size)
+        step = max(1, DEFAULTS.ray_block // 9)
+        for first in range(0, part.size, step):
+            chunk = slice(first, first + step)
+            local = {k: v[..., chunk] if isinstance(v, np.ndarray) else v for k, v in names.items()}
+            local.update(at=nodes[:, chunk], scale=scale[:, chunk])
+            inside[chunk] = _integrand(local).sum(axis=0)
+        weight = self.fan.solid[cells["ring"][part]]
         return total + 2.0 * rays.r_max**3 * rays.h * float(np.dot(inside, weight))
 
     def reach(self, level: float, rays: _Rays) -> float:
@@ -307,10 +354,9 @@ def _scout(rays: _Rays, rings: int, fraction: float) -> tuple[float, float]:
     The weighted quantile of the samples (mass |psi|^2 r^2 dr dOmega each), and the slope of
     their cumulative mass across +-0.1 about it.
     """
-    polar, azimuth, d_polar, d_azimuth = _fan(rings, rays.frame is not None)
-    dens = rays.density(polar, azimuth)[:, :, 1:-2].astype(np.float64)
-    solid = np.sin(polar) * d_polar * d_azimuth
-    mass = dens * rays.jacobian[1:-2] * rays.h * solid[:, None, None]
+    fan = _fan(rings, rays.frame is not None, rays.mirror)
+    dens = rays.density(fan.polar, fan.azimuth)[:, :, 1:-2].astype(np.float64)
+    mass = dens * rays.jacobian[1:-2] * rays.h * fan.solid[:, None, None]
     order = np.argsort(dens, axis=None)[::-1]
     logs = np.log(np.maximum(dens.reshape(-1)[order], 1e-300))
     cumulative = np.cumsum(mass.reshape(-1)[order]) / mass.sum()
@@ -375,7 +421,7 @@ class RayCellLevels:
         x, y = (self.base / coarse) ** 2, (self.base / fine) ** 2
         p_fine = self._fans[fine].above(math.exp(log_level), self.rays)
         p_coarse = self._fans[coarse].above(math.exp(log_level), self.rays)
-        return (x * p_fine - y * p_coarse) / (x - y)
+        return float((x * p_fine - y * p_coarse) / (x - y))
 
     def solve(self, fraction: float) -> float | None:
         """Log level whose extrapolated P is ``fraction``; None if the first window misses it.
@@ -425,7 +471,7 @@ class RayCellLevels:
         window = (log_level - 0.5 * _NARROW, log_level + 0.5 * _NARROW)
         self.fan(middle, *window)
         self.fan(fine, *window)
-        return self.extrapolated(fine, middle, log_level)
+        return float(self.extrapolated(fine, middle, log_level))
 
     def rough_reach(self, level: float) -> float:
         """Largest radius at which a ray of the finest fan built reaches the level (bohr)."""
