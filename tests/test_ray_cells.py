@@ -15,8 +15,8 @@ import numpy as np
 import pytest
 
 from orbviz.errors import ParameterError
-from orbviz.levels.isovalue import enclosing_isovalue
-from orbviz.levels.ray_cells import cell_mass
+from orbviz.levels.cell_model import cell_mass
+from orbviz.levels.isovalue import enclosed_probability, enclosing_isovalue
 from orbviz.states.orbital import Orbital
 from tests.tools.brute import enclosed
 
@@ -98,3 +98,14 @@ def test_axial_mixture_uses_one_azimuth_and_matches_the_brute_force():
     assert truth == pytest.approx(0.8, abs=1e-5)
     assert math.isfinite(iso.enclosed_fraction)
     assert iso.enclosed_fraction == pytest.approx(truth, abs=1e-5)
+
+
+@pytest.mark.slow
+def test_enclosed_probability_of_a_mixture_at_given_levels():
+    # the public enclosed_probability routes a superposition about the nucleus through the same
+    # fans: at two levels a decade apart, within 1e-5 of the scipy brute force
+    terms = [(1, 1, 0, 0, "complex"), (1, 2, 0, 0, "complex"), (1, 2, 1, 1, "complex")]
+    levels = np.array([2e-4, 2e-3])
+    got = enclosed_probability(Orbital.from_spec("1s + 2s + 2,1,1"), levels)
+    for level, p in zip(levels, got, strict=True):
+        assert p == pytest.approx(enclosed(terms, level, 30.0), abs=1e-5)

@@ -7,11 +7,15 @@ log density, independent of any mesh grid:
 * an eigenstate (or any state of one (n, l) shell) factorises, |psi|^2 = R^2(r) A(direction), so
   the distribution of log |psi|^2 is the convolution of the radial and angular ones (FFT). A real
   orbital factorises further, A = F(cos polar) G(azimuth), so each factor is a fine 1D quadrature;
-* a superposition of several shells is sampled on a spherical product grid (rays times radii).
+* a superposition of several shells about the nucleus is integrated on fans of rays, exactly
+  along each ray and with a linear model across its cell of directions, and two fans are
+  extrapolated to zero angular step (:mod:`orbviz.levels.ray_cells`);
+* a bond or a state off the nucleus is sampled on a spherical product grid (rays times radii)
+  about the midpoint (:mod:`orbviz.levels.rays`).
 
-Each sample's mass goes to the two nearest log-grid nodes (cloud in cell), which keeps the
-tabulated P(c) second-order accurate in the sample spacing; P between nodes is interpolated
-linearly, and the level is read off the tabulated P directly.
+In the tables, each sample's mass goes to the two nearest log-grid nodes (cloud in cell), which
+keeps the tabulated P(c) second-order accurate in the sample spacing; P between nodes is
+interpolated linearly, and the level is read off the tabulated P directly.
 """
 
 from __future__ import annotations
@@ -92,11 +96,10 @@ def check_fraction(fraction: object) -> float:
     return value
 
 
-def _quadrature(state: State, refine: int) -> ShellQuadrature | RayQuadrature:
-    """Return the shell quadrature for one shell about the origin, rays for anything else."""
-    if len(state.shells) == 1:
-        return ShellQuadrature(state.centres[0].orbital, refine)
-    return RayQuadrature(state, refine)
+def _one_centre(state: State) -> bool:
+    """Return whether the state lies about one centre at the origin."""
+    centres = state.centres
+    return len(centres) == 1 and centres[0].z == 0.0
 
 
 def enclosed_probability(state: State, levels: np.ndarray | float, /) -> np.ndarray:
@@ -112,10 +115,17 @@ def enclosed_probability(state: State, levels: np.ndarray | float, /) -> np.ndar
     Returns
     -------
     (K,) ndarray
-        Enclosed probabilities in [0, 1].
+        Enclosed probabilities in [0, 1]: for one shell from its table; for a superposition
+        about the nucleus by the checking extrapolation of its fans of rays, level by level; for
+        a bond from one ray quadrature over the whole range.
     """
     levels = np.atleast_1d(np.asarray(levels, dtype=np.float64))
-    return _quadrature(state, 1).table.above(np.log(levels))
+    logs = np.log(levels)
+    if len(state.shells) == 1:
+        return ShellQuadrature(state.centres[0].orbital, 1).table.above(logs)
+    if _one_centre(state):
+        return np.array([RayCellLevels(state, log_level=x).achieved(x) for x in logs])
+    return RayQuadrature(state, 1).table.above(logs)
 
 
 def enclosing_isovalue(
@@ -143,15 +153,15 @@ def enclosing_isovalue(
     Notes
     -----
     A one-shell state is solved on the base quadrature and checked on one twice as fine
-    (typical agreement 1e-7). Anything else is solved on rays: windowed quadratures at refine 1
-    and 2 extrapolated to zero spacing, and checked by the extrapolation from refine 1.5 and 2
-    (both within 4e-6 in probability of brute-force sums for the mixtures in the tests; see
-    :class:`orbviz.levels.rays.RayLevels`).
+    (typical agreement 1e-7). A superposition about the nucleus is solved on fans of rays, the
+    base fan and one twice as fine extrapolated to zero step, and checked by the extrapolation
+    from fans 1.5 and 2 times the base (both within 2e-6 in probability of brute-force sums for
+    the mixtures in the tests, 5e-6 at f = 0.999; :class:`orbviz.levels.ray_cells.RayCellLevels`).
+    A bond is solved likewise on windowed ray quadratures (:class:`orbviz.levels.rays.RayLevels`).
     """
     fraction = check_fraction(fraction)
     if len(state.shells) == 1:
-        solve = _quadrature(state, 1)
-        assert isinstance(solve, ShellQuadrature)
+        solve = ShellQuadrature(state.centres[0].orbital, 1)
         level = math.exp(solve.table.level_above(fraction))
         reach, thin = solve.axis_reach(level), solve.thinnest_shell(level)
         reach_max = solve.max_radius(level)
@@ -207,8 +217,7 @@ def _levels(
     state: State, fraction: float | None = None, log_level: float | None = None
 ) -> RayLevels | RayCellLevels:
     """Fans of rays with a cell model for one centre at the origin; windowed rays otherwise."""
-    centres = state.centres
-    if len(centres) == 1 and centres[0].z == 0.0:
+    if _one_centre(state):
         return RayCellLevels(state, fraction=fraction, log_level=log_level)
     return RayLevels(state, fraction=fraction, log_level=log_level)
 

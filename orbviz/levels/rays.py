@@ -1,9 +1,8 @@
 """Quadrature of any state on rays: a spherical product grid of radii, polar and azimuth.
 
-Used for superpositions of several shells and for states with more than one centre. Mirror
-planes halve the range sampled, and an axis of rotational symmetry reduces the azimuths to one.
-About one centre, psi on the rays is a matrix product: the shells' angular parts on the
-directions times their radial functions on the radii.
+Used for states with more than one centre or off the nucleus (bonds): a superposition about the
+nucleus uses the fans of :mod:`orbviz.levels.ray_cells`. Mirror planes halve the range sampled,
+and an axis of rotational symmetry reduces the azimuths to one.
 
 A quadrature may be restricted to a *window* of log density and a radius: only samples whose
 log-density interval reaches into the window are binned, those wholly above it are summed into
@@ -133,14 +132,6 @@ class RayQuadrature:
         count = (_RADIAL[0] + _RADIAL[1] * max(n for n, _ in shells)) * math.sqrt(r_max / extent)
         u, du = midpoints(max(16, round(count * refine)), 0.0, 1.0)
         self.radii = r = r_max * u * u
-        self._shells = sorted(set(shells))
-        self._radial = (  # one centre at the origin: psi = angular @ radial
-            None
-            if off_centre
-            else np.stack([centres[0].orbital.radial(*s, r) for s in self._shells]).astype(
-                np.float32
-            )
-        )
         frame = symmetry_frame(centres, is_real=state.is_real)  # None: no axis of symmetry
         mirror = (False,) * 3 if frame is not None else tuple(p != 0 for p in field_parity(state))
         # a mirror plane halves the range sampled, at the same density of rays, mass doubled;
@@ -177,23 +168,11 @@ class RayQuadrature:
             self._accumulate(t, a, first, block, cell)
 
     def _density(self, x: np.ndarray, y: np.ndarray, z: np.ndarray) -> np.ndarray:
-        """|psi|^2 on the rays through the unit vectors (x, y, z), shape (rays, radii).
-
-        About one centre, float32 (relative error ~1e-7, far inside the log step of 1e-3).
-        """
+        """|psi|^2 on the rays through the unit vectors (x, y, z), shape (rays, radii), float32."""
         r = self.radii
-        if self._radial is None:
-            psi = self.state.psi(np.outer(x, r), np.outer(y, r), np.outer(z, r), dtype=np.float64)
-            dens = psi * psi if self.state.is_real else np.abs(psi) ** 2
-            return dens.astype(np.float32)
-        angular = self.state.centres[0].orbital.shell_angular(x, y, z)
-        parts = np.stack([np.broadcast_to(angular[s], x.shape) for s in self._shells], axis=1)
-        if not np.iscomplexobj(parts):
-            psi = parts.astype(np.float32) @ self._radial
-            return psi * psi
-        real = parts.real.astype(np.float32) @ self._radial
-        imag = parts.imag.astype(np.float32) @ self._radial
-        return real * real + imag * imag
+        psi = self.state.psi(np.outer(x, r), np.outer(y, r), np.outer(z, r), dtype=np.float64)
+        dens = psi * psi if self.state.is_real else np.abs(psi) ** 2
+        return dens.astype(np.float32)
 
     def _accumulate(
         self, t: np.ndarray, a: np.ndarray, first: int, block: int, cell: np.ndarray
