@@ -49,6 +49,7 @@ _MAX_SAMPLES = 100_000_000
 _WINDOW = 0.4  # half-width in log density of the first window about the scout's level
 _NARROW = 0.05  # half-width of the window of the finer fans, about the base fan's level
 
+
 @dataclass(frozen=True)
 class _Fan:
     """Ray directions: rings of equal polar steps, each with equal azimuth steps.
@@ -183,8 +184,12 @@ class RayCellQuadrature:
         ring = np.repeat(own.astype(np.int32), fan.azimuth.size)
         f, a, b = (x.reshape(-1, rays.u.size) for x in (f, a, b))
         # a radial cell j spans samples j + 1 and j + 2 (sample 0 is the ghost inside r = 0)
-        g = f.astype(np.float64) * rays.jacobian
-        mass = rays.h / 24.0 * (13.0 * (g[:, 1:-2] + g[:, 2:-1]) - g[:, :-3] - g[:, 3:])
+        g = f * rays.jacobian.astype(np.float32)  # float32: ~1e-7 of each cell's mass
+        mass = g[:, 1:-2] + g[:, 2:-1]
+        mass *= np.float32(13.0)
+        mass -= g[:, :-3]
+        mass -= g[:, 3:]
+        mass *= np.float32(rays.h / 24.0)
         # the range of F over a cell: its ends, the angular half-ranges, and a quarter of the
         # larger second difference (a cubic between the samples strays beyond them by ~1/8)
         bend = np.abs(f[:, :-2] - 2 * f[:, 1:-1] + f[:, 2:])
@@ -194,7 +199,8 @@ class RayCellQuadrature:
         high = np.maximum(f[:, 1:-2] + reach[:, 1:-2], f[:, 2:-1] + reach[:, 2:-1]) + bend
         c_low, c_high = self.window
         whole = low >= c_high
-        self.lump += float(np.dot(mass[whole], weight[np.nonzero(whole)[0]]))
+        per_ray = np.where(whole, mass, np.float32(0.0)).sum(axis=1, dtype=np.float64)
+        self.lump += float(np.dot(per_ray, weight))
         ray, cell = np.nonzero(~whole & (high >= c_low))
         return {
             "f": np.stack([f[ray, cell + k] for k in range(4)]),
@@ -202,7 +208,7 @@ class RayCellQuadrature:
             "b": np.stack([b[ray, cell + 1], b[ray, cell + 2]]),
             "cell": cell.astype(np.int32),
             "ring": ring[ray],
-            "mass": mass[ray, cell] * weight[ray],
+            "mass": mass[ray, cell].astype(np.float64) * weight[ray],
             "low": low[ray, cell],
             "high": high[ray, cell],
         }
