@@ -5,7 +5,7 @@ u^2; F along it is the cubic through samples j - 1 .. j + 2. Across the ray's ce
 is taken to vary linearly, with half-ranges a and b (interpolated linearly along the cell). The
 mass above a level c is then the integral over the radial cell of u^5 E[F 1(F >= c)] for
 F = f(s) + U1 + U2, U1 and U2 uniform on [-a, a] and [-b, b] (:func:`cell_mass`, a closed form),
-by Gauss rules on three pieces split where the cubic crosses the level (2, 3 and 2 nodes).
+by 3-point Gauss on three pieces split where the cubic crosses the level.
 """
 
 from __future__ import annotations
@@ -16,18 +16,10 @@ from orbviz._defaults import DEFAULTS
 
 __all__ = ["cell_mass", "mass_above"]
 
-# the cubic through samples at s = -1, 0, 1, 2 (coefficients of 1, s, s^2, s^3)
+# the cubic through samples at s = -1, 0, 1, 2 (coefficients of 1, s, s^2, s^3) and 3-point Gauss
 _CUBIC = np.linalg.inv(np.vander(np.array([-1.0, 0.0, 1.0, 2.0]), 4, increasing=True))
-
-
-def _gauss(count: int) -> tuple[np.ndarray, np.ndarray]:
-    nodes, weights = np.polynomial.legendre.leggauss(count)
-    return 0.5 * (nodes + 1.0), 0.5 * weights
-
-
-# per piece (before the band, the band, after it): Gauss nodes and weights on 0 .. 1. Outside the
-# band the mass is u^5 F or 0, a smooth polynomial; the band holds the closed form's kinks
-_RULES = (_gauss(2), _gauss(3), _gauss(2))
+_GAUSS_S, _GAUSS_W = np.polynomial.legendre.leggauss(3)
+_GAUSS_S, _GAUSS_W = 0.5 * (_GAUSS_S + 1.0), 0.5 * _GAUSS_W
 
 
 def cell_mass(f: np.ndarray, a: np.ndarray, b: np.ndarray, level: float) -> np.ndarray:
@@ -91,7 +83,7 @@ def _pieces(
     The cell mass changes from 0 to F over |F - level| < a + b, a band that may be much narrower
     than the cell: [0, s* - w], [s* - w, s* + w] and [s* + w, 1], with s* the crossing (Newton
     on the cubic from the linear guess) and w the band's half-width in s, are each smooth enough
-    for a low-order Gauss rule, where one rule across a sharp band would be first order.
+    for 4-point Gauss, where one rule across a sharp band would be first order.
     """
     f0 = coef[0]
     f1 = coef[0] + coef[1] + coef[2] + coef[3]
@@ -137,13 +129,13 @@ def mass_above(
     names: dict[str, object] = {f"c{k}": row for k, row in enumerate(coef)}
     names.update(zip(("a0", "da", "b0", "db"), spreads, strict=True))
     names.update(u0=u0, h=h, level=level, half=0.5 * level)
-    # the Gauss nodes of the three pieces of each cell, (7, cells) at once, in chunks
+    # the Gauss nodes of the three pieces of each cell, (9, cells) at once, in chunks
     ends = np.array(_pieces(coef, spreads, level))  # (piece, low/high, cells)
     width = ends[:, 1] - ends[:, 0]
-    nodes = np.concatenate([ends[k, 0] + s[:, None] * width[k] for k, (s, _) in enumerate(_RULES)])
-    scale = np.concatenate([w[:, None] * width[k] for k, (_, w) in enumerate(_RULES)])
+    nodes = (ends[:, None, 0] + _GAUSS_S[None, :, None] * width[:, None]).reshape(9, -1)
+    scale = (_GAUSS_W[None, :, None] * width[:, None]).reshape(9, -1)
     inside = np.empty(u0.size)
-    step = max(1, DEFAULTS.ray_block // len(nodes))
+    step = max(1, DEFAULTS.ray_block // 9)
     for first in range(0, u0.size, step):
         chunk = slice(first, first + step)
         local = {k: v[..., chunk] if isinstance(v, np.ndarray) else v for k, v in names.items()}
