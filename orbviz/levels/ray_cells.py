@@ -31,6 +31,7 @@ from orbviz._defaults import DEFAULTS
 from orbviz.errors import ParameterError
 from orbviz.levels.cell_model import mass_above
 from orbviz.levels.fields import field_parity
+from orbviz.levels.rays import azimuth_range
 from orbviz.levels.shell import unit_vectors
 from orbviz.states.state import State
 from orbviz.states.symmetry import symmetry_frame
@@ -74,12 +75,7 @@ def _fan(rings: int, axial: bool, mirror: tuple[bool, bool, bool]) -> _Fan:
     if axial:
         azimuth, d_azimuth, ends = np.zeros(1), 2 * math.pi, "one"
     else:
-        low, high = {
-            (True, True): (0.0, 0.5 * math.pi),
-            (False, True): (0.0, math.pi),  # y -> -y: azimuth -> -azimuth
-            (True, False): (-0.5 * math.pi, 0.5 * math.pi),  # x -> -x: azimuth -> pi - azimuth
-            (False, False): (0.0, 2 * math.pi),
-        }[(mirror[0], mirror[1])]
+        low, high = azimuth_range(mirror)
         d_azimuth = math.pi / rings
         count = round((high - low) / d_azimuth)
         azimuth = low + (np.arange(count) + 0.5) * d_azimuth
@@ -255,14 +251,13 @@ def _check_size(state: State, rings: int, axial: bool, radii: int) -> None:
         )
 
 
-def _scout(rays: _Rays, rings: int, fraction: float) -> tuple[float, float]:
+def _scout(rays: _Rays, fan: _Fan, samples: np.ndarray, fraction: float) -> tuple[float, float]:
     """Rough log level enclosing ``fraction`` and dP/d(log level) there, from a coarse fan.
 
-    The weighted quantile of the samples (mass |psi|^2 r^2 dr dOmega each), and the slope of
-    their cumulative mass across +-0.1 about it.
+    The weighted quantile of the ``samples`` of |psi|^2 on the fan (mass |psi|^2 r^2 dr dOmega
+    each), and the slope of their cumulative mass across +-0.1 about it.
     """
-    fan = _fan(rings, rays.frame is not None, rays.mirror)
-    dens = rays.density(fan.polar, fan.azimuth)[:, :, 1:-2].astype(np.float64)
+    dens = samples[:, :, 1:-2].astype(np.float64)
     mass = dens * rays.jacobian[1:-2] * rays.h * fan.solid[:, None, None]
     order = np.argsort(dens, axis=None)[::-1]
     logs = np.log(np.maximum(dens.reshape(-1)[order], 1e-300))
@@ -301,11 +296,13 @@ class RayCellLevels:
         self.base += -self.base % 4  # so that half and 1.5 times it are whole
         _check_size(state, 2 * self.base, scout.frame is not None, radii)
         self.slope: float | None = None
+        coarse = _fan(self.base // 2, scout.frame is not None, scout.mirror)
+        samples = scout.density(coarse.polar, coarse.azimuth)
         if log_level is None:
             assert fraction is not None
-            log_level, self.slope = _scout(scout, self.base // 2, fraction)
+            log_level, self.slope = _scout(scout, coarse, samples, fraction)
         # the rays end a quarter beyond where every coarse ray lies e^4 below the lowest window
-        column = RayCellQuadrature(scout, self.base // 2, (math.inf, math.inf)).column_max
+        column = samples.max(axis=(0, 1))
         hit = np.flatnonzero(column >= math.exp(log_level - _WINDOW - 4.0))
         r_max = extent
         if hit.size:

@@ -23,7 +23,7 @@ from orbviz.levels.shell import unit_vectors
 from orbviz.states.state import State
 from orbviz.states.symmetry import symmetry_frame
 
-__all__ = ["RayLevels", "RayQuadrature"]
+__all__ = ["RayLevels", "RayQuadrature", "azimuth_range"]
 
 # Radial nodes at refine 1 over the whole extent (base + per unit of n, on the square-root map)
 # and the fewest polar lobes the rings resolve: with these, windowed quadratures at refine 1 and
@@ -51,14 +51,19 @@ def _bound(state: State, r: np.ndarray) -> float:
     return float(total)
 
 
-def _azimuths(mirror: tuple[bool, ...], count: float) -> tuple[np.ndarray, float, float]:
-    """Azimuth midpoints over the range the x and y mirrors leave, their step and the share."""
-    a_low, a_high = {
+def azimuth_range(mirror: tuple[bool, ...]) -> tuple[float, float]:
+    """Range of azimuths the x = 0 and y = 0 mirror planes of |psi|^2 leave to sample."""
+    return {
         (True, True): (0.0, 0.5 * math.pi),
         (False, True): (0.0, math.pi),  # y -> -y: azimuth -> -azimuth
         (True, False): (-0.5 * math.pi, 0.5 * math.pi),  # x -> -x: azimuth -> pi - az
         (False, False): (0.0, 2 * math.pi),
     }[(mirror[0], mirror[1])]
+
+
+def _azimuths(mirror: tuple[bool, ...], count: float) -> tuple[np.ndarray, float, float]:
+    """Azimuth midpoints over the range the x and y mirrors leave, their step and the share."""
+    a_low, a_high = azimuth_range(mirror)
     share = (a_high - a_low) / (2 * math.pi)
     a, da = midpoints(max(1, round(count * share)), a_low, a_high)
     return a, da, share
